@@ -1,0 +1,101 @@
+/**
+ * Types shared by the client, the server and the form-finding engine.
+ * Units: lengths in metres, prestress in kN/m, cable tension in kN, angles in degrees unless named.
+ */
+
+/** Kind of a frame edge: held in place, or a flexible cable of given tension. */
+export type EdgeKind = 'rigid' | 'cable'
+
+export interface FramePoint {
+  id: string
+  x: number
+  y: number
+  z: number
+}
+
+export interface FrameEdge {
+  kind: EdgeKind
+  /** Axial cable tension T in kN; present (and > 0) only for cable edges. */
+  tension?: number
+}
+
+export interface FrameLoop {
+  role: 'outer' | 'hole'
+  points: FramePoint[]
+  /** edges[i] joins points[i] to points[(i+1) % n]; same length as points. */
+  edges: FrameEdge[]
+}
+
+/** A validated frame: the boundary of one membrane (see ../shared/PRODUCT.md "Frame file"). */
+export interface Frame {
+  format: 'veilroom-frame'
+  version: 1
+  units: 'm'
+  prestress: { warp: number; fill: number }
+  mesh: { edgeLength: number }
+  loops: FrameLoop[]
+}
+
+/** Solver state words used in UI and API. */
+export type SolverState = 'settling' | 'settled' | 'unsettled'
+
+export interface SolverReport {
+  /** e.g. 'newton-height-field' or 'surface-stress-density' */
+  method: string
+  iterations: number
+  /** Final residual: max nodal mean-curvature force, normalised (dimensionless). */
+  residual: number
+  converged: boolean
+  /** Reason when not converged: 'diverged', 'no-equilibrium', 'cancelled', 'iteration-limit', … */
+  reason?: string
+  ms: number
+}
+
+export interface Histogram {
+  /** Bin edges in degrees, length bins+1. */
+  edges: number[]
+  /** Share of surface area in each bin (sums to 1). */
+  shares: number[]
+}
+
+export interface CableFigure {
+  loop: number
+  edge: number
+  /** Length of the cable along the solved surface boundary, m. */
+  length: number
+  /** Axial force, kN. */
+  force: number
+  /** Largest sag from the chord, m. */
+  sag: number
+}
+
+export interface Figures {
+  area: number
+  planArea: number
+  perimeter: number
+  cables: CableFigure[]
+  heightRange: [number, number]
+  /** Slope range of the surface in degrees from horizontal. */
+  slopeRange: [number, number]
+  slopeHistogram: Histogram
+  /** Threshold in degrees below which a face counts as flat (default from common practice). */
+  flatThreshold: number
+  /** Share of area flatter than flatThreshold (0..1). */
+  flatShare: number
+  /** Interior low points that would hold water. */
+  pondingPockets: { x: number; y: number; z: number; area: number }[]
+  /** Share of area whose Gaussian curvature is negative (anticlastic), 0..1. */
+  anticlasticShare: number
+  /** Reaction at each frame point, kN, as [loop, point, fx, fy, fz]. */
+  reactions: [number, number, number, number, number][]
+  residual: number
+  minAngle: number
+}
+
+/** The result shape of PRODUCT.md "Surface result" (JSON form). */
+export interface SurfaceResult {
+  vertices: [number, number, number][]
+  triangles: [number, number, number][]
+  figures: Figures
+  solver: SolverReport
+}

@@ -1,0 +1,20 @@
+import { fileURLToPath, URL } from 'node:url'
+import { defineConfig } from 'vite'
+import vue from '@vitejs/plugin-vue'
+
+export default defineConfig({
+  plugins: [vue()],
+  resolve: {
+    alias: {
+      '@': fileURLToPath(new URL('./src', import.meta.url)),
+      '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
+    },
+  },
+  server: {
+    proxy: {
+      '/api': 'http://127.0.0.1:3210',
+      '/socket.io': { target: 'http://127.0.0.1:3210', ws: true },
+      '/sync': { target: 'ws://127.0.0.1:3210', ws: true },
+    },
+  },
+})
