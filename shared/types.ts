@@ -99,3 +99,27 @@ export interface SurfaceResult {
   figures: Figures
   solver: SolverReport
 }
+
+/**
+ * A triangulated membrane ready for the solver (produced by shared/mesh, consumed by shared/solver).
+ * vertices: #V×3 Float64Array, metres (boundary vertices carry the frame heights, interpolated
+ * linearly along each edge; interior z is a first guess). triangles: #T×3 Uint32Array, counter-
+ * clockwise seen from above for plan meshes.
+ */
+export interface MembraneMesh {
+  vertices: Float64Array
+  triangles: Uint32Array
+  /** Per vertex: index of the frame loop it lies on, or -1 for interior vertices. */
+  vertexLoops: Int32Array
+  /** Per vertex: index of the frame edge (within its loop) it lies on, or -1. A frame point's vertex
+   * reports the edge that starts at it. */
+  vertexEdges: Int32Array
+  /** Per vertex: index of the frame point (within its loop) it coincides with, or -1. */
+  vertexPoints: Int32Array
+  /** One array per frame loop: its boundary vertex indices in loop order (frame point 0 first). */
+  boundaryLoops: Uint32Array[]
+  /** Smallest triangle angle in degrees (in the meshing domain). */
+  minAngle: number
+  /** Equal for two meshes with identical connectivity: a solver may reuse its symbolic factorisation. */
+  topologyKey: string
+}
