@@ -1,0 +1,104 @@
+/**
+ * The room document read back as plain data for the workbench: loops and points keep their ids
+ * (edits address them by id) and every value is passed on as found, a non-number becoming NaN, so
+ * the table can show a bad value instead of hiding it. Nothing here validates; the server's frame
+ * validator names bad fields through the solver status.
+ */
+import * as Y from 'yjs'
+import type { EdgeKind } from '../../../shared/types.ts'
+import { frameMap, type YLoop } from '../../../shared/room-doc/schema.ts'
+
+export interface ViewPoint {
+  id: string
+  /** Plan position and height, metres. */
+  x: number
+  y: number
+  z: number
+  /** The edge that starts at this point. */
+  edge: EdgeKind
+  /** Cable tension in kN, for cable edges. */
+  tension: number | undefined
+}
+
+export interface ViewLoop {
+  id: string
+  role: 'outer' | 'hole'
+  points: ViewPoint[]
+}
+
+export interface FrameView {
+  loops: ViewLoop[]
+  /** Membrane prestress, kN/m. */
+  prestress: { warp: number; fill: number }
+  /** Target element size, m. */
+  edgeLength: number
+}
+
+const num = (v: unknown): number => (typeof v === 'number' ? v : Number.NaN)
+const str = (v: unknown): string => (typeof v === 'string' ? v : '')
+
+/** Reads the frame of a room document; an empty document gives no loops. */
+export function readFrameView(doc: Y.Doc): FrameView {
+  const root = frameMap(doc)
+  const prestress = root.get('prestress')
+  const mesh = root.get('mesh')
+  const loops = root.get('loops')
+  return {
+    prestress: {
+      warp: prestress instanceof Y.Map ? num(prestress.get('warp')) : Number.NaN,
+      fill: prestress instanceof Y.Map ? num(prestress.get('fill')) : Number.NaN,
+    },
+    edgeLength: mesh instanceof Y.Map ? num(mesh.get('edgeLength')) : Number.NaN,
+    loops: loops instanceof Y.Array ? (loops.toArray() as YLoop[]).map(readLoop) : [],
+  }
+}
+
+function readLoop(loop: YLoop): ViewLoop {
+  const pts = loop.get('points')
+  const points = pts instanceof Y.Array ? (pts.toArray() as Y.Map<unknown>[]) : []
+  return {
+    id: str(loop.get('id')),
+    role: loop.get('role') === 'hole' ? 'hole' : 'outer',
+    points: points.map((p) => {
+      const tension = p.get('tension')
+      return {
+        id: str(p.get('id')),
+        x: num(p.get('x')),
+        y: num(p.get('y')),
+        z: num(p.get('z')),
+        edge: p.get('edge') === 'cable' ? 'cable' : 'rigid',
+        tension: typeof tension === 'number' ? tension : undefined,
+      }
+    }),
+  }
+}
+
+/** One row of the points table. */
+export interface PointRow extends ViewPoint {
+  /** Unique across the frame: loop id and point id. */
+  key: string
+  loopId: string
+  /** "Outer" or "Hole 1", "Hole 2", … in document order. */
+  loopLabel: string
+  /** "P1", "P2", … within the loop, in loop order. */
+  label: string
+}
+
+/** Flattens a frame into table rows: the outer loop first, then the holes, each in loop order. */
+export function frameRows(view: Readonly<FrameView>): PointRow[] {
+  const rows: PointRow[] = []
+  let hole = 0
+  const ordered = [...view.loops.filter((l) => l.role === 'outer'), ...view.loops.filter((l) => l.role === 'hole')]
+  for (const loop of ordered) {
+    const loopLabel = loop.role === 'outer' ? 'Outer' : `Hole ${++hole}`
+    loop.points.forEach((p, i) => {
+      rows.push({ ...p, key: `${loop.id}/${p.id}`, loopId: loop.id, loopLabel, label: `P${i + 1}` })
+    })
+  }
+  return rows
+}
+
+/** Finds a point of the view by ids. */
+export function viewPoint(view: Readonly<FrameView>, loopId: string, pointId: string): ViewPoint | undefined {
+  return view.loops.find((l) => l.id === loopId)?.points.find((p) => p.id === pointId)
+}

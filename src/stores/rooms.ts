@@ -1,0 +1,52 @@
+import { ref } from 'vue'
+import { defineStore } from 'pinia'
+import * as api from '../api/http'
+import type { RoomDetail, RoomSummary } from '../api/http'
+
+function summaryOf(room: RoomDetail): RoomSummary {
+  const { createdAt: _createdAt, ...summary } = room
+  return summary
+}
+
+export const useRoomsStore = defineStore('rooms', () => {
+  const rooms = ref<RoomSummary[]>([])
+  const loading = ref(false)
+
+  /** Fetch the rooms I belong to, replacing the list shown. */
+  async function list(): Promise<RoomSummary[]> {
+    loading.value = true
+    try {
+      rooms.value = await api.listRooms()
+      return rooms.value
+    } finally {
+      loading.value = false
+    }
+  }
+
+  /** Create a room (I become its owner) and put it at the top of the list. */
+  async function create(name: string, description: string): Promise<RoomDetail> {
+    const room = await api.createRoom({ name: name.trim(), description: description.trim() })
+    rooms.value = [summaryOf(room), ...rooms.value.filter((r) => r.id !== room.id)]
+    return room
+  }
+
+  /** Rename a room (owner or editor) and update it in the list. */
+  async function rename(id: string, name: string): Promise<RoomDetail> {
+    const room = await api.updateRoom(id, { name: name.trim() })
+    rooms.value = rooms.value.map((r) => (r.id === id ? summaryOf(room) : r))
+    return room
+  }
+
+  /** Delete a room (owner only) and drop it from the list. */
+  async function remove(id: string): Promise<void> {
+    await api.deleteRoom(id)
+    rooms.value = rooms.value.filter((r) => r.id !== id)
+  }
+
+  /** Forget every room, e.g. after signing out, so the next user never sees them. */
+  function clear(): void {
+    rooms.value = []
+  }
+
+  return { rooms, loading, list, create, rename, remove, clear }
+})
