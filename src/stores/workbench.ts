@@ -1,0 +1,198 @@
+import { computed, ref, shallowRef } from 'vue'
+import { defineStore } from 'pinia'
+import type { Figures, SolverReport } from '../../shared/types.ts'
+import * as edits from '../../shared/room-doc/edits.ts'
+import type { EdgeKind } from '../../shared/types.ts'
+import {
+  canEditFrame, includesClock, openRoomDocument, ownClock, trackPeers,
+  type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,
+} from '../api/collaboration'
+import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
+import type { RoomRole } from '../api/schemas'
+import type { ColourMode } from '../components/workbench/colour-maps'
+import { frameRows, readFrameView, type FrameView } from '../components/workbench/frame-view'
+import { DEFAULT_SNAP_STEP } from '../components/workbench/snapping'
+
+/** Solver status as shown: offline until the stream is up, then the server's solver states. */
+export interface SolverStatus {
+  phase: 'offline' | 'waiting' | 'settling' | 'settled' | 'unsettled'
+  version: number
+  iteration?: number
+  residual?: number
+  reason?: string
+  message?: string
+  field?: string
+}
+
+/** The latest solved surface (typed arrays straight from the stream). */
+export interface SurfaceData {
+  version: number
+  coarse: boolean
+  stateVector: Uint8Array
+  /** #V×3, metres. */
+  vertices: Float32Array
+  /** #T×3 vertex indices. */
+  triangles: Uint32Array
+  solver: SolverReport
+}
+
+const emptyFrame = (): FrameView => ({ loops: [], prestress: { warp: Number.NaN, fill: Number.NaN }, edgeLength: Number.NaN })
+
+export const useWorkbenchStore = defineStore('workbench', () => {
+  const roomId = ref<string | null>(null)
+  const role = ref<RoomRole>('viewer')
+  const readOnly = computed(() => !canEditFrame(role.value))
+  const frame = shallowRef<FrameView>(emptyFrame())
+  const rows = computed(() => frameRows(frame.value))
+  const selection = ref<HeldPoint | null>(null)
+  const surface = shallowRef<SurfaceData | null>(null)
+  const figures = shallowRef<Figures | null>(null)
+  const status = ref<SolverStatus>({ phase: 'offline', version: 0 })
+  const sync = ref<SyncStatus>('connecting')
+  const synced = ref(false)
+  const streamError = ref<string | null>(null)
+  const colourMode = ref<ColourMode>('height')
+  const viewMode = ref<'plan' | '3d'>('3d')
+  const snapOn = ref(true)
+  const snapStep = ref(DEFAULT_SNAP_STEP)
+  const peers = ref<Peer[]>([])
+  const canUndo = ref(false)
+  const canRedo = ref(false)
+  /** Our clock after our latest edit; the surface is current for us once it includes it. */
+  const lastOwnClock = ref(0)
+  const clientId = ref(0)
+  const surfaceIncludesMine = computed(() =>
+    surface.value ? includesClock(surface.value.stateVector, clientId.value, lastOwnClock.value) : false,
+  )
+
+  let collab: Collaboration | null = null
+  let stream: SurfaceStream | null = null
+  let cleanups: (() => void)[] = []
+
+  function onSurface(msg: SurfaceMessage): void {
+    if (msg.roomId !== roomId.value) return
+    const { vertices, triangles, version, coarse, stateVector, solver } = msg
+    surface.value = { vertices, triangles, version, coarse, stateVector, solver }
+    figures.value = msg.figures
+    if (!coarse && version >= status.value.version) status.value = { phase: solver.converged ? 'settled' : 'unsettled', version, reason: solver.reason, residual: solver.residual, iteration: solver.iterations }
+  }
+
+  function onSolveState(msg: SolveStateMessage): void {
+    if (msg.roomId !== roomId.value || msg.version < status.value.version) return
+    const { state, version, reason, message, field } = msg
+    status.value = { phase: state, version, reason, message, field }
+  }
+
+  /** Opens a room: its live document, presence as `user`, and the surface stream. */
+  function open(id: string, user: PresenceUser, myRole: RoomRole): void {
+    close()
+    roomId.value = id
+    role.value = myRole
+    const c = openRoomDocument(id, user, myRole)
+    collab = c
+    clientId.value = c.doc.clientID
+    const refresh = (): void => { frame.value = readFrameView(c.doc) }
+    const undoState = (): void => { canUndo.value = c.undo.canUndo(); canRedo.value = c.undo.canRedo() }
+    c.doc.on('update', refresh)
+    c.provider.on('status', (e) => { sync.value = e.status })
+    c.provider.on('sync', (s) => { synced.value = s; refresh() })
+    for (const ev of ['stack-item-added', 'stack-item-popped', 'stack-cleared'] as const) c.undo.on(ev, undoState)
+    cleanups.push(trackPeers(c.provider.awareness, (p) => { peers.value = p }))
+    const s = connectSurfaceStream({
+      surface: onSurface,
+      solveState: onSolveState,
+      solveProgress: (m) => {
+        if (m.roomId === roomId.value && status.value.phase === 'settling') status.value = { ...status.value, iteration: m.iteration, residual: m.residual }
+      },
+      status: (connected, error) => {
+        streamError.value = error ?? null
+        if (!connected) status.value = { ...status.value, phase: 'offline' }
+        // socket.io forgets rooms on reconnect: join again every time the connection comes up
+        else if (!error) void join(s, id)
+      },
+    })
+    stream = s
+  }
+
+  async function join(s: SurfaceStream, id: string): Promise<void> {
+    const result = await s.join(id)
+    if (roomId.value !== id) return
+    if (!result.ok) {
+      streamError.value = result.error.message
+      return
+    }
+    role.value = result.role
+    if (status.value.phase === 'offline') status.value = { ...status.value, phase: 'waiting' }
+  }
+
+  /** Leaves the room and frees the document, socket and undo history. */
+  function close(): void {
+    cleanups.forEach((f) => f())
+    cleanups = []
+    if (stream && roomId.value) stream.leave(roomId.value)
+    stream?.close()
+    collab?.destroy()
+    stream = null
+    collab = null
+    roomId.value = null
+    frame.value = emptyFrame()
+    surface.value = null
+    figures.value = null
+    selection.value = null
+    peers.value = []
+    status.value = { phase: 'offline', version: 0 }
+    synced.value = false
+  }
+
+  /** Runs an edit as ours (undoable) unless read-only; returns the edit's result. */
+  function edit<T>(run: (c: Collaboration) => T): T | undefined {
+    const c = collab
+    if (!c || readOnly.value) return undefined
+    const result = run(c)
+    lastOwnClock.value = ownClock(c.doc)
+    return result
+  }
+
+  /** Moves a frame point (m). */
+  const move = (loopId: string, pointId: string, to: { x?: number; y?: number; z?: number }) =>
+    edit((c) => edits.movePoint(c.doc, loopId, pointId, to, c.origin))
+  /** Inserts a point on the edge that starts at `afterPointId` and selects it. */
+  function insertAfter(loopId: string, afterPointId: string, at: { x: number; y: number; z: number }): void {
+    const id = edit((c) => edits.insertPointAfter(c.doc, loopId, afterPointId, at, c.origin))
+    if (id) select({ loopId, pointId: id })
+  }
+  /** Removes a point (a loop keeps at least three). */
+  function removePoint(loopId: string, pointId: string): boolean {
+    const ok = edit((c) => edits.deletePoint(c.doc, loopId, pointId, c.origin)) ?? false
+    if (ok && selection.value?.pointId === pointId) select(null)
+    return ok
+  }
+  /** Sets the edge that starts at a point: rigid, or cable with tension (kN). */
+  const setEdge = (loopId: string, pointId: string, kind: EdgeKind, tension?: number) =>
+    edit((c) => edits.setEdge(c.doc, loopId, pointId, kind, tension, c.origin))
+  /** Adds a hole loop from ring points. */
+  const addHole = (points: { x: number; y: number; z: number }[]) => edit((c) => edits.addHole(c.doc, points, c.origin))
+  /** Removes a hole loop. */
+  const removeHole = (loopId: string) => edit((c) => edits.removeHole(c.doc, loopId, c.origin))
+  /** Sets prestress (kN/m) and/or element size (m). */
+  const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) => edit((c) => edits.setSettings(c.doc, s, c.origin))
+  /** Ends the current undo step, so the next edit (a new drag) undoes separately. */
+  const stopCapturing = (): void => collab?.undo.stopCapturing()
+  /** Undoes my own latest edit (never a peer's). */
+  const undo = (): void => void edit((c) => c.undo.undo())
+  /** Redoes my own latest undone edit. */
+  const redo = (): void => void edit((c) => c.undo.redo())
+
+  /** Selects a point (or none) and shows peers that I hold it. */
+  function select(sel: HeldPoint | null): void {
+    selection.value = sel
+    collab?.hold(sel)
+  }
+
+  return {
+    roomId, role, readOnly, frame, rows, selection, surface, figures, status, sync, synced, streamError,
+    colourMode, viewMode, snapOn, snapStep, peers, canUndo, canRedo, surfaceIncludesMine,
+    open, close, move, insertAfter, removePoint, setEdge, addHole, removeHole, setSettings,
+    stopCapturing, undo, redo, select,
+  }
+})
