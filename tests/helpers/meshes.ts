@@ -87,3 +87,21 @@ export function rimMask(mesh: MembraneMesh): Uint8Array {
   mesh.vertexLoops.forEach((l, v) => (fixed[v] = l >= 0 ? 1 : 0))
   return fixed
 }
+
+/**
+ * Disc of radius 1 from the m×m lattice by the square-to-disc map of Fong ("Analytical methods for
+ * squaring the disc", 2014): (x, y) ↦ (x√(1 − y²/2), y√(1 − x²/2)). Mapped on by `map`.
+ */
+export function discMesh(m: number, map: (x: number, y: number) => [number, number, number]): MembraneMesh {
+  return structuredMesh(m, m, (s, t) => {
+    const x = 2 * s - 1, y = 2 * t - 1
+    return map(x * Math.sqrt(1 - (y * y) / 2), y * Math.sqrt(1 - (x * x) / 2))
+  })
+}
+
+/** Largest |a_v − b_v| over vertices. */
+export function maxDifference(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let worst = 0
+  for (let v = 0; v < a.length; v++) worst = Math.max(worst, Math.abs(a[v]! - b[v]!))
+  return worst
+}
