@@ -1,0 +1,35 @@
+import { z } from 'zod'
+
+// Read once at start. A wrong value stops the server with the variable's name and the reason,
+// rather than failing later inside a request.
+const schema = z
+  .object({
+    NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+    HOST: z.string().min(1).default('127.0.0.1'),
+    PORT: z.coerce.number().int().min(0).max(65535).default(3210),
+    DB_HOST: z.string().min(1).default('127.0.0.1'),
+    DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
+    DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('veilroom'),
+    DB_USER: z.string().min(1).default('veilroom'),
+    DB_PASSWORD: z.string().default('veilroom-dev-password'),
+    SESSION_SECRET: z.string().min(16, 'at least 16 characters').optional(),
+    PUBLIC_URL: z.url().default('http://127.0.0.1:3210'),
+    LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error', 'silent']).default('info'),
+  })
+  .transform((env, ctx) => {
+    if (!env.SESSION_SECRET && env.NODE_ENV === 'production') {
+      ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'required when NODE_ENV=production' })
+      return z.NEVER
+    }
+    return { ...env, SESSION_SECRET: env.SESSION_SECRET ?? 'veilroom-development-secret-not-for-production' }
+  })
+
+export type Config = z.output<typeof schema>
+
+/** Parses an environment (process.env by default); throws one readable error listing every bad variable. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const result = schema.safeParse(env)
+  if (result.success) return result.data
+  const lines = result.error.issues.map((i) => `  ${i.path.join('.') || '(env)'}: ${i.message}`)
+  throw new Error(`Invalid configuration:\n${lines.join('\n')}`)
+}

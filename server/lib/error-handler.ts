@@ -1,0 +1,53 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import { ZodError } from 'zod'
+import { AppError } from './app-error.js'
+import { logger } from './logger.js'
+
+interface ErrorBody {
+  error: { code: string; message: string; field?: string }
+}
+
+// Body-parser and csrf-sync raise http-errors objects: recognise them by their fields.
+interface HttpLikeError {
+  status?: number
+  statusCode?: number
+  type?: string
+  code?: string
+  message?: string
+}
+
+function toResponse(err: unknown): { status: number; body: ErrorBody } {
+  if (err instanceof AppError) {
+    const { code, message, field } = err
+    return { status: err.status, body: { error: field ? { code, message, field } : { code, message } } }
+  }
+  if (err instanceof ZodError) {
+    const issue = err.issues[0]
+    const field = issue?.path.join('.') || undefined
+    const message = field ? `${field}: ${issue?.message}` : (issue?.message ?? 'Invalid input.')
+    return { status: 400, body: { error: field ? { code: 'invalid_input', message, field } : { code: 'invalid_input', message } } }
+  }
+  const e = (err ?? {}) as HttpLikeError
+  if (e.code === 'EBADCSRFTOKEN') {
+    return { status: 403, body: { error: { code: 'csrf_invalid', message: 'Missing or wrong x-csrf-token header; fetch GET /api/auth/csrf.' } } }
+  }
+  if (e.type === 'entity.parse.failed') {
+    return { status: 400, body: { error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } } }
+  }
+  if (e.type === 'entity.too.large') {
+    return { status: 413, body: { error: { code: 'too_large', message: 'The request body is too large.' } } }
+  }
+  return { status: 500, body: { error: { code: 'internal', message: 'Something went wrong on the server.' } } }
+}
+
+/** The single error middleware: every failure leaves as `{ error: { code, message, field? } }`. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  const { status, body } = toResponse(err)
+  if (status >= 500) logger.error('request failed', { method: req.method, url: req.originalUrl, err: String((err as Error)?.stack ?? err) })
+  res.status(status).json(body)
+}
+
+/** Unknown /api paths answer JSON 404 instead of falling through to the SPA. */
+export const apiNotFound: RequestHandler = (req, res) => {
+  res.status(404).json({ error: { code: 'not_found', message: `No API route ${req.method} ${req.path}.` } })
+}

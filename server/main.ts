@@ -1,0 +1,91 @@
+import 'reflect-metadata'
+import { createServer, type Server } from 'node:http'
+import type { AddressInfo } from 'node:net'
+import type { DataSource } from 'typeorm'
+import { createApp, type AppBundle } from './app.js'
+import { loadConfig, type Config } from './config.js'
+import { createDataSource } from './db/data-source.js'
+import { seedDemo } from './db/seed.js'
+import { logger, setLogLevel } from './lib/logger.js'
+
+export interface StartOptions {
+  /** 0 picks a free port (tests). Defaults to config.PORT. */
+  port?: number
+  config?: Config
+  /** Insert the demo practice, users and rooms (idempotent). */
+  seed?: boolean
+}
+
+export interface Running extends AppBundle {
+  server: Server
+  dataSource: DataSource
+  config: Config
+  port: number
+  url: string
+  stop: () => Promise<void>
+}
+
+let current: Running | null = null
+
+/**
+ * Connects to MariaDB, runs pending migrations, builds the app and listens. The http server is
+ * returned (not hidden) so the realtime layer can add its upgrade handler and socket.io.
+ */
+export async function start(options: StartOptions = {}): Promise<Running> {
+  const config = options.config ?? loadConfig()
+  setLogLevel(config.LOG_LEVEL)
+  const dataSource = createDataSource(config)
+  await dataSource.initialize()
+  const ran = await dataSource.runMigrations({ transaction: 'each' })
+  if (ran.length) logger.info('migrations applied', { names: ran.map((m) => m.name) })
+  if (options.seed) await seedDemo(dataSource)
+
+  const bundle = createApp({ config, dataSource })
+  const server = createServer(bundle.app)
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject)
+    server.listen(options.port ?? config.PORT, config.HOST, () => resolve())
+  })
+  const port = (server.address() as AddressInfo).port
+  const url = `http://${config.HOST}:${port}`
+
+  const running: Running = {
+    ...bundle,
+    server,
+    dataSource,
+    config,
+    port,
+    url,
+    stop: async () => {
+      server.closeAllConnections()
+      await new Promise<void>((resolve) => server.close(() => resolve()))
+      await bundle.close()
+      await dataSource.destroy()
+      if (current === running) current = null
+    },
+  }
+  current = running
+  logger.info(`Veilroom server listening on ${url}`)
+  return running
+}
+
+/** Stops the most recently started server (see start()). */
+export async function stop(): Promise<void> {
+  await current?.stop()
+}
+
+// `tsx server/main.ts [--seed]`: run until SIGINT/SIGTERM.
+if (import.meta.url === `file://${process.argv[1]}`) {
+  try {
+    await start({ seed: process.argv.includes('--seed') })
+  } catch (err) {
+    logger.error(err instanceof Error ? err.message : String(err))
+    process.exit(1)
+  }
+  const shutdown = (signal: string) => {
+    logger.info(`${signal}: stopping`)
+    stop().then(() => process.exit(0), () => process.exit(1))
+  }
+  process.once('SIGINT', () => shutdown('SIGINT'))
+  process.once('SIGTERM', () => shutdown('SIGTERM'))
+}

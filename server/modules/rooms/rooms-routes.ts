@@ -1,0 +1,40 @@
+import { Router } from 'express'
+import type { DataSource } from 'typeorm'
+import { requireRoomRole, requireUser } from './room-access.js'
+import { createRoomBody, updateRoomBody } from './rooms-schema.js'
+import type { RoomsService } from './rooms-service.js'
+
+/** /api/rooms: thin handlers; the service holds the rules, requireRoomRole the access. */
+export function roomsRoutes(dataSource: DataSource, rooms: RoomsService): Router {
+  const router = Router()
+  const viewer = requireRoomRole(dataSource, 'viewer')
+
+  router.get('/', requireUser, async (req, res) => {
+    res.json({ rooms: await rooms.list(req.user!.id) })
+  })
+
+  router.post('/', requireUser, async (req, res) => {
+    const body = createRoomBody.parse(req.body)
+    res.status(201).json({ room: await rooms.create(body, req.user!.id) })
+  })
+
+  router.get('/:id', viewer, async (req, res) => {
+    res.json({ room: await rooms.get(req.params.id as string, req.user!.id) })
+  })
+
+  router.patch('/:id', requireRoomRole(dataSource, 'editor'), async (req, res) => {
+    const body = updateRoomBody.parse(req.body)
+    res.json({ room: await rooms.update(req.params.id as string, body, req.user!.id) })
+  })
+
+  router.delete('/:id', requireRoomRole(dataSource, 'owner'), async (req, res) => {
+    await rooms.remove(req.params.id as string)
+    res.status(204).end()
+  })
+
+  router.get('/:id/members', viewer, async (req, res) => {
+    res.json({ members: await rooms.members(req.params.id as string) })
+  })
+
+  return router
+}
