@@ -1,0 +1,217 @@
+/**
+ * The map of live room documents. A room's Y.Doc is loaded from MariaDB before anyone syncs
+ * against it, every accepted update is stored before it is relayed to peers, the state is
+ * compacted every `compactEvery` updates or after `idleMs` without edits, and the doc is freed once
+ * the last user has left and the state is persisted.
+ */
+import { EventEmitter } from 'node:events'
+import * as Y from 'yjs'
+import { Awareness } from 'y-protocols/awareness'
+import type { DataSource } from 'typeorm'
+import { readRawFrame, writeFrame } from '../../shared/room-doc/schema.js'
+import { starterFrame, type StarterKey } from '../../shared/room-doc/starters.js'
+import { logger } from '../lib/logger.js'
+import { appendUpdate, loadStoredRoom, storeCompacted } from './room-store.js'
+
+/** Transaction origin of the load; those updates are already stored. */
+const LOAD = Symbol('load')
+/** Transaction origin of a starting frame written by the server. */
+export const SEED = Symbol('seed')
+
+export type RelayListener = (update: Uint8Array, origin: unknown, version: number) => void
+
+/** One loaded room: its document, presence, version counter and persistence queue. */
+export class LiveRoom {
+  readonly doc = new Y.Doc({ gc: true })
+  readonly awareness = new Awareness(this.doc)
+  /** Incremented on every accepted update, persisted with the compacted state. */
+  version = 0
+  users = 0
+  /** Persist-then-relay steps run one after another so peers see updates in stored order. */
+  chain: Promise<void> = Promise.resolve()
+  sinceCompact = 0
+  lastUpdateId = 0
+  idleTimer: NodeJS.Timeout | undefined
+  readonly relays = new Set<RelayListener>()
+
+  constructor(readonly roomId: string) {
+    // The server has no presence of its own.
+    this.awareness.setLocalState(null)
+  }
+
+  /**
+   * Applies a client's V1 update. Throws on bytes that do not decode: the caller closes that socket.
+   * Decoding first means a malformed message is refused before it can touch the document.
+   */
+  applyClientUpdate(update: Uint8Array, origin: unknown): void {
+    Y.decodeUpdate(update)
+    Y.applyUpdate(this.doc, update, origin)
+  }
+}
+
+export interface RoomDocsOptions {
+  compactEvery?: number
+  idleMs?: number
+}
+
+export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoom] }> {
+  private readonly rooms = new Map<string, Promise<LiveRoom>>()
+  private readonly loaded = new Map<string, LiveRoom>()
+  private readonly compactEvery: number
+  private readonly idleMs: number
+  private closed = false
+
+  constructor(
+    private readonly ds: DataSource,
+    options: RoomDocsOptions = {},
+  ) {
+    super()
+    this.compactEvery = options.compactEvery ?? 200
+    this.idleMs = options.idleMs ?? 10_000
+  }
+
+  /** The loaded room, if any (no load is started). */
+  peek(roomId: string): LiveRoom | undefined {
+    return this.loaded.get(roomId)
+  }
+
+  /** Every loaded room. */
+  all(): LiveRoom[] {
+    return [...this.loaded.values()]
+  }
+
+  /** Loads (once) and holds a room; every acquire needs one release. Rejects when the load fails. */
+  async acquire(roomId: string): Promise<LiveRoom> {
+    if (this.closed) throw new Error('realtime is shutting down')
+    let pending = this.rooms.get(roomId)
+    if (!pending) {
+      pending = this.load(roomId)
+      this.rooms.set(roomId, pending)
+      pending.catch(() => this.rooms.delete(roomId))
+    }
+    const room = await pending
+    room.users++
+    return room
+  }
+
+  /** Lets go of a room; the last release persists and frees it. */
+  release(room: LiveRoom): Promise<void> {
+    room.users--
+    if (room.users > 0) return Promise.resolve()
+    return this.enqueue(room, async () => {
+      await this.compact(room)
+      if (room.users > 0 || this.loaded.get(room.roomId) !== room) return
+      this.rooms.delete(room.roomId)
+      this.loaded.delete(room.roomId)
+      this.dispose(room)
+    })
+  }
+
+  /** Waits until every stored-then-relayed step queued so far has run. */
+  flush(room: LiveRoom): Promise<void> {
+    return room.chain
+  }
+
+  /**
+   * Gives a room a starting frame when its document has none (room creation, demo seed). Safe to
+   * call whether or not the room is live; returns once the frame is stored.
+   */
+  async ensureRoomFrame(roomId: string, starterKey: StarterKey): Promise<boolean> {
+    const room = await this.acquire(roomId)
+    try {
+      if (readRawFrame(room.doc) !== null) return false
+      writeFrame(room.doc, starterFrame(starterKey), SEED)
+      await this.flush(room)
+      return true
+    } finally {
+      await this.release(room)
+    }
+  }
+
+  /** Persists every loaded room and frees them all. */
+  async close(): Promise<void> {
+    this.closed = true
+    const rooms = await Promise.allSettled([...this.rooms.values()])
+    for (const r of rooms) {
+      if (r.status !== 'fulfilled') continue
+      const room = r.value
+      await this.enqueue(room, () => this.compact(room))
+      this.dispose(room)
+    }
+    this.rooms.clear()
+    this.loaded.clear()
+  }
+
+  private async load(roomId: string): Promise<LiveRoom> {
+    const stored = await loadStoredRoom(this.ds, roomId)
+    const room = new LiveRoom(roomId)
+    Y.transact(
+      room.doc,
+      () => {
+        if (stored.state) Y.applyUpdate(room.doc, stored.state, LOAD)
+        for (const u of stored.updates) Y.applyUpdate(room.doc, u, LOAD)
+      },
+      LOAD,
+    )
+    room.version = stored.version
+    room.lastUpdateId = stored.lastUpdateId
+    room.sinceCompact = stored.updates.length
+    room.doc.on('update', (update: Uint8Array, origin: unknown) => {
+      if (origin !== LOAD) this.accepted(room, update, origin)
+    })
+    this.loaded.set(roomId, room)
+    this.emit('loaded', room)
+    return room
+  }
+
+  private accepted(room: LiveRoom, update: Uint8Array, origin: unknown): void {
+    room.version++
+    room.sinceCompact++
+    const version = room.version
+    void this.enqueue(room, async () => {
+      try {
+        room.lastUpdateId = await appendUpdate(this.ds, room.roomId, update, version)
+      } catch (err) {
+        // Fall back to writing the whole state; relay either way so peers do not drift apart.
+        logger.error('realtime: storing an update failed', { roomId: room.roomId, err: String(err) })
+        await this.compact(room)
+      }
+      for (const relay of room.relays) relay(update, origin, version)
+      if (room.sinceCompact >= this.compactEvery) await this.compact(room)
+    })
+    clearTimeout(room.idleTimer)
+    room.idleTimer = setTimeout(() => void this.enqueue(room, () => this.compact(room)), this.idleMs)
+    room.idleTimer.unref()
+  }
+
+  private enqueue(room: LiveRoom, step: () => Promise<void>): Promise<void> {
+    const next = room.chain.then(step).catch((err: unknown) => {
+      logger.error('realtime: room step failed', { roomId: room.roomId, err: String(err) })
+    })
+    room.chain = next
+    return next
+  }
+
+  /** Writes the full state; never rejects (an unhandled rejection would end the process). */
+  private async compact(room: LiveRoom): Promise<void> {
+    // Runs inside the room's chain, so no append can interleave; edits accepted meanwhile are
+    // either inside the encoded state or get rows of their own.
+    if (room.sinceCompact === 0 && room.lastUpdateId === 0) return
+    try {
+      const folded = room.sinceCompact
+      await storeCompacted(this.ds, room.roomId, Y.encodeStateAsUpdate(room.doc), room.version, room.lastUpdateId)
+      room.sinceCompact -= folded
+      room.lastUpdateId = 0
+    } catch (err) {
+      logger.error('realtime: compacting a room document failed', { roomId: room.roomId, err: String(err) })
+    }
+  }
+
+  private dispose(room: LiveRoom): void {
+    clearTimeout(room.idleTimer)
+    room.relays.clear()
+    room.awareness.destroy()
+    room.doc.destroy()
+    this.emit('freed', room)
+  }
+}

@@ -1,0 +1,67 @@
+/**
+ * The database side of a live room document: load (compacted state + pending updates in order),
+ * append one accepted update, and compact. Plain SQL with bound parameters: `update` is a reserved
+ * word and the upsert/delete pair must run in one transaction.
+ */
+import type { DataSource } from 'typeorm'
+
+export interface StoredRoom {
+  /** Merged V1 update of the compacted document, or null for a room that never had one. */
+  state: Buffer | null
+  /** The newest version stored, by the state or by a pending row. */
+  version: number
+  /** Pending V1 updates, oldest first. */
+  updates: Buffer[]
+  /** Id of the newest pending row (compaction deletes up to it), or 0. */
+  lastUpdateId: number
+}
+
+interface StateRow {
+  state: Buffer
+  version: number
+}
+
+interface UpdateRow {
+  id: string | number
+  update: Buffer
+  version: number
+}
+
+/** Reads a room's compacted state and the updates stored after it. */
+export async function loadStoredRoom(ds: DataSource, roomId: string): Promise<StoredRoom> {
+  const states = (await ds.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ?', [roomId])) as StateRow[]
+  const rows = (await ds.query('SELECT `id`, `update`, `version` FROM `room_updates` WHERE `room_id` = ? ORDER BY `id`', [roomId])) as UpdateRow[]
+  const head = states[0]
+  const last = rows[rows.length - 1]
+  return {
+    state: head ? head.state : null,
+    version: Math.max(head ? Number(head.version) : 0, last ? Number(last.version) : 0),
+    updates: rows.map((r) => r.update),
+    lastUpdateId: last ? Number(last.id) : 0,
+  }
+}
+
+/** Appends one accepted update; returns its row id. */
+export async function appendUpdate(ds: DataSource, roomId: string, update: Uint8Array, version: number): Promise<number> {
+  const result = (await ds.query('INSERT INTO `room_updates` (`room_id`, `update`, `version`) VALUES (?, ?, ?)', [
+    roomId,
+    Buffer.from(update.buffer, update.byteOffset, update.byteLength),
+    version,
+  ])) as { insertId: number }
+  return Number(result.insertId)
+}
+
+/**
+ * Stores the full document state with its version and deletes the update rows it already contains
+ * (ids ≤ upToId). Rows appended meanwhile stay and are re-applied on load; yjs ignores duplicates.
+ */
+export async function storeCompacted(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
+  await ds.transaction(async (em) => {
+    await em.query(
+      'INSERT INTO `room_documents` (`room_id`, `state`, `version`, `updated_at`) VALUES (?, ?, ?, NOW(3)) ' +
+        'ON DUPLICATE KEY UPDATE `state` = VALUES(`state`), `version` = VALUES(`version`), `updated_at` = NOW(3)',
+      [roomId, Buffer.from(state.buffer, state.byteOffset, state.byteLength), version],
+    )
+    if (upToId > 0) await em.query('DELETE FROM `room_updates` WHERE `room_id` = ? AND `id` <= ?', [roomId, upToId])
+  })
+}

@@ -1,0 +1,106 @@
+/**
+ * The surface stream: socket.io on the same http server. The handshake runs the express-session
+ * and passport middleware; `room:join` checks membership, joins `room:<id>` and holds the room's
+ * document (so the room is solved while someone watches); the latest surface is sent on join.
+ */
+import type { Server as HttpServer } from 'node:http'
+import { Server, type Socket } from 'socket.io'
+import { logger } from '../lib/logger.js'
+import { parseRoomId, roomRoleOf, sessionUser, type AccessDeps, type SessionUser } from './access.js'
+import type { LiveRoom, RoomDocs } from './room-docs.js'
+
+export type JoinAck = { ok: true; role: string } | { ok: false; error: { code: string; message: string } }
+
+export interface SurfaceStreamOptions {
+  rooms: RoomDocs
+  access: AccessDeps
+  origins: () => Set<string>
+  /** The last surface (and solve state) of a room, sent to a client that joins. */
+  latest: (roomId: string) => { event: string; payload: unknown }[]
+}
+
+export interface SurfaceStream {
+  io: Server
+  /** Sends an event to everyone who joined the room. */
+  emit: (roomId: string, event: string, payload: unknown) => void
+  close: () => Promise<void>
+}
+
+export const channel = (roomId: string): string => `room:${roomId}`
+
+export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamOptions): SurfaceStream {
+  const io = new Server(httpServer, {
+    // The /sync upgrade belongs to the CRDT endpoint; by default socket.io would destroy it after 1 s.
+    destroyUpgrade: false,
+    maxHttpBufferSize: 64 * 1024,
+    serveClient: false,
+    // Same-origin polling requests carry no Origin header; a foreign Origin is refused.
+    allowRequest: (req, callback) => {
+      const origin = req.headers.origin
+      callback(null, origin === undefined || opts.origins().has(origin))
+    },
+  })
+
+  io.use((socket, next) => {
+    sessionUser(socket.request, opts.access).then(
+      (user) => {
+        if (!user) return next(new Error('signed_out'))
+        socket.data.user = user
+        next()
+      },
+      (err: unknown) => next(err instanceof Error ? err : new Error(String(err))),
+    )
+  })
+
+  io.on('connection', (socket: Socket) => {
+    const held = new Map<string, LiveRoom>()
+    socket.on('error', (err) => logger.debug('realtime: socket.io error', { err: String(err) }))
+
+    socket.on('room:join', async (body: unknown, ack?: (a: JoinAck) => void) => {
+      const reply = typeof ack === 'function' ? ack : () => undefined
+      try {
+        const roomId = parseRoomId((body as { roomId?: unknown } | null)?.roomId)
+        const user = socket.data.user as SessionUser
+        const role = roomId ? await roomRoleOf(opts.access.dataSource, roomId, user.id) : null
+        if (!roomId || !role) return reply({ ok: false, error: { code: 'room_not_found', message: 'No such room, or you are not a member.' } })
+        if (!held.has(roomId)) {
+          const room = await opts.rooms.acquire(roomId)
+          if (socket.disconnected || held.has(roomId)) void opts.rooms.release(room)
+          else held.set(roomId, room)
+        }
+        await socket.join(channel(roomId))
+        reply({ ok: true, role })
+        for (const { event, payload } of opts.latest(roomId)) socket.emit(event, payload)
+      } catch (err) {
+        logger.error('realtime: room:join failed', { err: String(err) })
+        reply({ ok: false, error: { code: 'internal', message: 'The room could not be opened.' } })
+      }
+    })
+
+    socket.on('room:leave', async (body: unknown) => {
+      const roomId = parseRoomId((body as { roomId?: unknown } | null)?.roomId)
+      const room = roomId ? held.get(roomId) : undefined
+      if (!roomId || !room) return
+      held.delete(roomId)
+      await socket.leave(channel(roomId))
+      await opts.rooms.release(room)
+    })
+
+    socket.on('disconnect', () => {
+      for (const room of held.values()) void opts.rooms.release(room)
+      held.clear()
+    })
+  })
+
+  return {
+    io,
+    emit: (roomId, event, payload) => {
+      io.to(channel(roomId)).emit(event, payload)
+    },
+    close: async () => {
+      io.disconnectSockets(true)
+      // io.close() would also close the http server, which belongs to the caller.
+      io.engine.close()
+    },
+  }
+}

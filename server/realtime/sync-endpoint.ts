@@ -1,0 +1,204 @@
+/**
+ * The CRDT endpoint: y-websocket's protocol (y-protocols sync + awareness) at /sync/<roomId>.
+ * Everything is checked in the HTTP upgrade, before the socket is accepted: Origin, session user,
+ * room membership, and the room document is loaded so nobody syncs against an empty doc.
+ * Reviewers and viewers are read only: their sync-step-2 and update messages are dropped.
+ */
+import type { IncomingMessage, Server } from 'node:http'
+import type { Duplex } from 'node:stream'
+import * as decoding from 'lib0/decoding'
+import * as encoding from 'lib0/encoding'
+import * as awarenessProtocol from 'y-protocols/awareness'
+import * as syncProtocol from 'y-protocols/sync'
+import { WebSocketServer, type WebSocket } from 'ws'
+import * as Y from 'yjs'
+import { logger } from '../lib/logger.js'
+import { canEditFrame, parseRoomId, roomRoleOf, sessionUser, type AccessDeps } from './access.js'
+import type { LiveRoom, RoomDocs } from './room-docs.js'
+
+const MESSAGE_SYNC = 0
+const MESSAGE_AWARENESS = 1
+const MESSAGE_QUERY_AWARENESS = 3
+const PATH_PREFIX = '/sync/'
+
+export interface SyncEndpointOptions {
+  rooms: RoomDocs
+  access: AccessDeps
+  /** Origins allowed to open the socket (checked on every upgrade, so it may change). */
+  origins: () => Set<string>
+  /** Largest message accepted, bytes (ws closes the socket beyond it). */
+  maxPayload?: number
+  pingMs?: number
+}
+
+export interface SyncEndpoint {
+  /** Open connections, for tests and the benchmark. */
+  connections: () => number
+  close: () => Promise<void>
+}
+
+function refuse(socket: Duplex, status: number, reason: string): void {
+  socket.end(`HTTP/1.1 ${status} ${reason}\r\nConnection: close\r\nContent-Type: text/plain\r\nContent-Length: ${reason.length}\r\n\r\n${reason}`)
+  socket.destroy()
+}
+
+/** Attaches the endpoint to the server's 'upgrade' event; other paths are left to socket.io. */
+export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): SyncEndpoint {
+  const wss = new WebSocketServer({ noServer: true, maxPayload: opts.maxPayload ?? 2 * 1024 * 1024 })
+  const live = new Set<WebSocket>()
+  const alive = new WeakSet<WebSocket>()
+
+  const accept = async (req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> => {
+    const origin = req.headers.origin
+    if (!origin || !opts.origins().has(origin)) return refuse(socket, 403, 'Forbidden')
+    const path = new URL(req.url ?? '/', 'http://localhost').pathname
+    const roomId = parseRoomId(decodeURIComponent(path.slice(PATH_PREFIX.length)))
+    if (!roomId) return refuse(socket, 404, 'Not Found')
+    const user = await sessionUser(req, opts.access)
+    if (!user) return refuse(socket, 401, 'Unauthorized')
+    const role = await roomRoleOf(opts.access.dataSource, roomId, user.id)
+    if (!role) return refuse(socket, 404, 'Not Found')
+    const room = await opts.rooms.acquire(roomId)
+    if (socket.destroyed) return void opts.rooms.release(room)
+    wss.handleUpgrade(req, socket, head, (ws) => {
+      live.add(ws)
+      alive.add(ws)
+      ws.on('pong', () => alive.add(ws))
+      serve(ws, room, !canEditFrame(role))
+      ws.once('close', () => {
+        live.delete(ws)
+        void opts.rooms.release(room)
+      })
+    })
+  }
+
+  const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer): void => {
+    if (!(req.url ?? '').startsWith(PATH_PREFIX)) return
+    socket.on('error', (err) => logger.debug('realtime: upgrade socket error', { err: String(err) }))
+    accept(req, socket, head).catch((err: unknown) => {
+      logger.error('realtime: sync upgrade failed', { err: String(err) })
+      if (!socket.destroyed) refuse(socket, 500, 'Internal Server Error')
+    })
+  }
+  server.on('upgrade', onUpgrade)
+
+  // Sockets that did not answer the last ping are dropped, so a vanished laptop frees its room.
+  const pingMs = opts.pingMs ?? 30_000
+  const pinger = setInterval(() => {
+    for (const ws of live) {
+      if (!alive.has(ws)) {
+        ws.terminate()
+        continue
+      }
+      alive.delete(ws)
+      ws.ping()
+    }
+  }, pingMs)
+  pinger.unref()
+
+  return {
+    connections: () => live.size,
+    close: async () => {
+      server.off('upgrade', onUpgrade)
+      clearInterval(pinger)
+      for (const ws of live) ws.terminate()
+      await new Promise<void>((resolve) => wss.close(() => resolve()))
+    },
+  }
+}
+
+function send(ws: WebSocket, message: Uint8Array): void {
+  if (ws.readyState === ws.OPEN) ws.send(message, (err) => err && ws.terminate())
+}
+
+/** Speaks the y-websocket protocol on one accepted socket. */
+function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean): void {
+  const controlled = new Set<number>()
+  ws.on('error', (err) => logger.debug('realtime: sync socket error', { roomId: room.roomId, err: String(err) }))
+
+  const relay = (update: Uint8Array, origin: unknown) => {
+    if (origin === ws) return
+    const encoder = encoding.createEncoder()
+    encoding.writeVarUint(encoder, MESSAGE_SYNC)
+    syncProtocol.writeUpdate(encoder, update)
+    send(ws, encoding.toUint8Array(encoder))
+  }
+  room.relays.add(relay)
+
+  const onAwareness = (changes: { added: number[]; updated: number[]; removed: number[] }, origin: unknown) => {
+    const changed = [...changes.added, ...changes.updated, ...changes.removed]
+    if (origin === ws) {
+      for (const id of [...changes.added, ...changes.updated]) controlled.add(id)
+      for (const id of changes.removed) controlled.delete(id)
+    }
+    send(ws, awarenessMessage(room, changed))
+  }
+  room.awareness.on('update', onAwareness)
+
+  ws.on('message', (data, isBinary) => {
+    try {
+      if (!isBinary) throw new Error('text frame')
+      handleMessage(ws, room, readOnly, toBytes(data))
+    } catch (err) {
+      // A message that does not decode is either a bug or an attack: end this socket only.
+      logger.warn('realtime: closing a sync socket on a bad message', { roomId: room.roomId, err: String(err) })
+      ws.close(4400, 'bad message')
+      ws.terminate()
+    }
+  })
+
+  ws.once('close', () => {
+    room.relays.delete(relay)
+    room.awareness.off('update', onAwareness)
+    awarenessProtocol.removeAwarenessStates(room.awareness, [...controlled], null)
+  })
+
+  // The server opens with its own sync-step-1 so the client sends what the server lacks.
+  const encoder = encoding.createEncoder()
+  encoding.writeVarUint(encoder, MESSAGE_SYNC)
+  syncProtocol.writeSyncStep1(encoder, room.doc)
+  send(ws, encoding.toUint8Array(encoder))
+  if (room.awareness.getStates().size > 0) send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
+}
+
+function toBytes(data: Buffer | ArrayBuffer | Buffer[]): Uint8Array {
+  if (Array.isArray(data)) return new Uint8Array(Buffer.concat(data))
+  return data instanceof ArrayBuffer ? new Uint8Array(data) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength)
+}
+
+function awarenessMessage(room: LiveRoom, clients: number[]): Uint8Array {
+  const encoder = encoding.createEncoder()
+  encoding.writeVarUint(encoder, MESSAGE_AWARENESS)
+  encoding.writeVarUint8Array(encoder, awarenessProtocol.encodeAwarenessUpdate(room.awareness, clients))
+  return encoding.toUint8Array(encoder)
+}
+
+function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, bytes: Uint8Array): void {
+  const decoder = decoding.createDecoder(bytes)
+  const type = decoding.readVarUint(decoder)
+  if (type === MESSAGE_SYNC) {
+    const step = decoding.readVarUint(decoder)
+    if (step === syncProtocol.messageYjsSyncStep1) {
+      const stateVector = decoding.readVarUint8Array(decoder)
+      Y.decodeStateVector(stateVector)
+      // Answered after the updates queued so far are stored: a joiner sees only durable state.
+      void room.chain.then(() => {
+        const encoder = encoding.createEncoder()
+        encoding.writeVarUint(encoder, MESSAGE_SYNC)
+        syncProtocol.writeSyncStep2(encoder, room.doc, stateVector)
+        send(ws, encoding.toUint8Array(encoder))
+      })
+    } else if (step === syncProtocol.messageYjsSyncStep2 || step === syncProtocol.messageYjsUpdate) {
+      const update = decoding.readVarUint8Array(decoder)
+      if (!readOnly) room.applyClientUpdate(update, ws)
+    } else {
+      throw new Error(`unknown sync step ${step}`)
+    }
+  } else if (type === MESSAGE_AWARENESS) {
+    awarenessProtocol.applyAwarenessUpdate(room.awareness, decoding.readVarUint8Array(decoder), ws)
+  } else if (type === MESSAGE_QUERY_AWARENESS) {
+    send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
+  } else {
+    throw new Error(`unknown message type ${type}`)
+  }
+}
