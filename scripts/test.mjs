@@ -1,0 +1,77 @@
+// `npm test`: typecheck, lint, then every vitest suite against a throwaway MariaDB database, then
+// the browser tests against a running server. All stages run; the exit code is the first failure.
+// `npm test -- <vitest filters…>` runs only the matching vitest files (no typecheck, lint, browser).
+import { existsSync, readdirSync } from 'node:fs'
+import { resolve } from 'node:path'
+import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
+import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild } from './helpers.mjs'
+
+const filters = process.argv.slice(2)
+const results = []
+async function stage(name, fn) {
+  const t0 = Date.now()
+  console.log(`\n=== ${name}`)
+  let code
+  try {
+    code = await fn()
+  } catch (err) {
+    console.error(err)
+    code = 1
+  }
+  results.push({ name, code, s: ((Date.now() - t0) / 1000).toFixed(1) })
+  return code
+}
+
+if (!existsSync(resolve(root, 'node_modules'))) await run('npm', ['ci'])
+
+if (!filters.length) {
+  if (hasClientSources()) await stage('typecheck client (vue-tsc --build)', () => run('vue-tsc', ['--build', '--force']))
+  await stage('typecheck server (tsc -p tsconfig.server.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.server.json']))
+  await stage('lint (eslint)', () => run('eslint', ['.']))
+}
+
+// A separate instance and a fresh database per run, so tests never see development data.
+const db = { ...dbDefaults, port: 3308, dataDir: resolve(root, '.data/mariadb-test') }
+db.database = `veilroom_test_${new Date().toISOString().replace(/\D/g, '').slice(0, 14)}_${process.pid}`
+const instance = await startDb(db)
+const env = {
+  ...process.env,
+  NODE_ENV: 'test',
+  LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+  DB_HOST: '127.0.0.1',
+  DB_PORT: String(db.port),
+  DB_NAME: db.database,
+  DB_USER: db.user,
+  DB_PASSWORD: db.password,
+}
+
+let server = null
+try {
+  const migrated = await stage('migrate + demo seed (test database)', () => run('tsx', ['scripts/migrate.ts', '--seed'], { env }))
+  if (migrated === 0) {
+    await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
+    const browserDir = resolve(root, 'tests/browser')
+    const e2e = existsSync(browserDir) ? readdirSync(browserDir).filter((f) => f.endsWith('.e2e.ts')) : []
+    if (!filters.length && e2e.length) {
+      await stage('browser tests (chromium)', async () => {
+        if (!existsSync('/usr/bin/chromium')) {
+          if ((await run('apt-get', ['update'])) || (await run('apt-get', ['install', '-y', 'chromium']))) return 1
+        }
+        if (clientBuildIsStale() && (await run('vite', ['build']))) return 1
+        server = await startServerChild({ ...env, PORT: '0' })
+        return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts'], { env: { ...env, BASE_URL: server.url } })
+      })
+    }
+  }
+} finally {
+  await stopChild(server?.child)
+  await dropDatabase(db).catch((err) => console.error(`[db] could not drop ${db.database}: ${err.message}`))
+  // Another engineer's run may share this instance: stop it only when no test database is left.
+  const others = await rootSql(db.port, "SHOW DATABASES LIKE 'veilroom\\_test\\_%'").catch(() => '')
+  if (instance.started && !others.trim()) await stopDb(db)
+}
+
+console.log('\n=== summary')
+for (const r of results) console.log(`${r.code === 0 ? 'ok  ' : 'FAIL'} ${r.name} (${r.s} s)`)
+const failed = results.find((r) => r.code !== 0)
+process.exit(failed ? failed.code || 1 : 0)
