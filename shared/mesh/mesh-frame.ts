@@ -1,0 +1,150 @@
+/**
+ * Plan meshing of a frame: the domain outer loop minus holes, triangulated at the frame's target
+ * edge length h with a hexagonal interior lattice and a constrained Delaunay triangulation.
+ */
+import Delaunator from 'delaunator'
+import Constrainautor from '@kninnug/constrainautor'
+import type { Frame, MembraneMesh } from '../types'
+import { resampleLoops } from './boundary'
+import { domainTriangles } from './domain-triangles'
+import { latticePoints } from './lattice'
+import { meshTopologyKey } from './quantities'
+import { orient } from './plan-geometry'
+import { MeshError } from './mesh-error'
+import { buildVertexNeighbours, smoothInterior } from './smoothing'
+
+/** How far interior lattice points stay off the boundary, in units of h (0.7 measured best for min angle). */
+const BOUNDARY_GAP = 0.7
+const SMOOTHING_SWEEPS = 3
+
+/**
+ * Mesh the plan domain of `frame` (see README.md). Vertices: boundary first (loop by loop, frame
+ * point order), then interior. Known limits: loops overlapping in plan need meshParametric; very
+ * short frame edges (≪ h) give small angles next to them (reported in minAngle).
+ */
+export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
+  const h = frame.mesh.edgeLength
+  const b = resampleLoops(frame, (_l, _e, lp) => Math.round(lp / h))
+  const nB = b.loopOf.length
+  const segments: [number, number][] = []
+  for (const loop of b.loops) {
+    for (let i = 0; i < loop.length; i++) segments.push([loop[i]!, loop[(i + 1) % loop.length]!])
+  }
+  const inner = latticePoints(b.xyz, segments, h, BOUNDARY_GAP * h)
+  const nV = nB + inner.length / 2
+  const coords = new Float64Array(2 * nV)
+  for (let i = 0; i < nB; i++) {
+    coords[2 * i] = b.xyz[3 * i]!
+    coords[2 * i + 1] = b.xyz[3 * i + 1]!
+  }
+  coords.set(inner, 2 * nB)
+
+  const del = new Delaunator(coords)
+  const con = new Constrainautor(del)
+  for (const [p, q] of segments) con.constrainOne(p, q)
+  if (con.untriangulatedPoints().length > 0) {
+    throw new MeshError('mesh', 'frame points lie too close together for the target edge length')
+  }
+  const segmentKeys = new Set<number>()
+  for (const [p, q] of segments) segmentKeys.add(Math.min(p, q) * nV + Math.max(p, q))
+
+  const keep = domainTriangles(del.triangles, del.halfedges, segmentKeys, nV)
+  const isInterior = new Uint8Array(nV).fill(1, nB)
+  const neighbours = buildVertexNeighbours(nV, del.triangles, keep)
+  // Smart smoothing only accepts moves that raise the local minimum angle, so no edge flips needed.
+  smoothInterior(coords, neighbours, isInterior, del.triangles, keep, SMOOTHING_SWEEPS)
+
+  const triangles = new Uint32Array(3 * keep.length)
+  keep.forEach((t, k) => {
+    let a = del.triangles[3 * t]!, bb = del.triangles[3 * t + 1]!, c = del.triangles[3 * t + 2]!
+    if (orient(coords[2 * a]!, coords[2 * a + 1]!, coords[2 * bb]!, coords[2 * bb + 1]!, coords[2 * c]!, coords[2 * c + 1]!) < 0) {
+      const s = bb
+      bb = c
+      c = s
+    }
+    triangles[3 * k] = a
+    triangles[3 * k + 1] = bb
+    triangles[3 * k + 2] = c
+  })
+
+  const vertices = new Float64Array(3 * nV)
+  for (let v = 0; v < nV; v++) {
+    vertices[3 * v] = coords[2 * v]!
+    vertices[3 * v + 1] = coords[2 * v + 1]!
+    vertices[3 * v + 2] = v < nB ? b.xyz[3 * v + 2]! : 0
+  }
+  firstGuessHeights(vertices, nB, frame, buildVertexNeighbours(nV, triangles, null), isInterior)
+
+  const vertexLoops = new Int32Array(nV).fill(-1)
+  const vertexEdges = new Int32Array(nV).fill(-1)
+  const vertexPoints = new Int32Array(nV).fill(-1)
+  for (let i = 0; i < nB; i++) {
+    vertexLoops[i] = b.loopOf[i]!
+    vertexEdges[i] = b.edgeOf[i]!
+    vertexPoints[i] = b.pointOf[i]!
+  }
+  return {
+    vertices,
+    triangles,
+    vertexLoops,
+    vertexEdges,
+    vertexPoints,
+    boundaryLoops: b.loops.map((l) => Uint32Array.from(l)),
+    minAngle: planMinAngle(coords, triangles),
+    topologyKey: meshTopologyKey(nV, triangles),
+  }
+}
+
+/**
+ * Interior heights: inverse-distance blend of the frame points (when there are few) relaxed by
+ * Laplacian sweeps — only a start, the solver replaces it.
+ */
+function firstGuessHeights(
+  V: Float64Array,
+  nB: number,
+  frame: Readonly<Frame>,
+  nb: { start: Int32Array; list: Int32Array },
+  isInterior: Uint8Array,
+): void {
+  const pts = frame.loops.flatMap((l) => l.points)
+  const nV = V.length / 3
+  let mean = 0
+  for (let i = 0; i < nB; i++) mean += V[3 * i + 2]! / nB
+  for (let v = nB; v < nV; v++) {
+    if (pts.length > 64) {
+      V[3 * v + 2] = mean
+      continue
+    }
+    let sw = 0, sz = 0
+    for (const p of pts) {
+      const w = 1 / Math.max((V[3 * v]! - p.x) ** 2 + (V[3 * v + 1]! - p.y) ** 2, 1e-30)
+      sw += w
+      sz += w * p.z
+    }
+    V[3 * v + 2] = sz / sw
+  }
+  for (let s = 0; s < 6; s++) {
+    for (let v = nB; v < nV; v++) {
+      if (!isInterior[v]) continue
+      let z = 0
+      const a = nb.start[v]!, e = nb.start[v + 1]!
+      for (let k = a; k < e; k++) z += V[3 * nb.list[k]! + 2]!
+      if (e > a) V[3 * v + 2] = z / (e - a)
+    }
+  }
+}
+
+/** Smallest plan triangle angle, degrees. coords: #V×2, T: #T×3. */
+function planMinAngle(coords: Float64Array, T: Uint32Array): number {
+  let m = Math.PI
+  for (let t = 0; t < T.length; t += 3) {
+    for (let k = 0; k < 3; k++) {
+      const p = 2 * T[t + k]!, q = 2 * T[t + ((k + 1) % 3)]!, r = 2 * T[t + ((k + 2) % 3)]!
+      const ux = coords[q]! - coords[p]!, uy = coords[q + 1]! - coords[p + 1]!
+      const vx = coords[r]! - coords[p]!, vy = coords[r + 1]! - coords[p + 1]!
+      const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
+      if (ang < m) m = ang
+    }
+  }
+  return (m * 180) / Math.PI
+}
