@@ -10,7 +10,7 @@ await dataSource.initialize()
 try {
   const ran = await dataSource.runMigrations({ transaction: 'each' })
   console.log(`[migrate] ${config.DB_NAME}: ${ran.length ? ran.map((m) => m.name).join(', ') : 'up to date'}`)
-  if (process.argv.includes('--seed')) await seedDemo(dataSource)
+  if (process.argv.includes('--seed')) await seedDemo(dataSource, config.BCRYPT_COST)
 } finally {
   await dataSource.destroy()
 }

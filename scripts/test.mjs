@@ -38,6 +38,7 @@ const env = {
   ...process.env,
   NODE_ENV: 'test',
   LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+  BCRYPT_COST: process.env.BCRYPT_COST ?? '10',
   DB_HOST: '127.0.0.1',
   DB_PORT: String(db.port),
   DB_NAME: db.database,

@@ -57,7 +57,7 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
   )
 
   const session = createSession(config, dataSource)
-  const auth = authService(dataSource)
+  const auth = authService(dataSource, config.BCRYPT_COST)
   const passport = createPassport(auth)
   const passportSession = passport.session() as RequestHandler
   const { csrfSynchronisedProtection, generateToken } = csrfSync({

@@ -14,6 +14,8 @@ const schema = z
     DB_PASSWORD: z.string().default('veilroom-dev-password'),
     SESSION_SECRET: z.string().min(16, 'at least 16 characters').optional(),
     PUBLIC_URL: z.url().default('http://127.0.0.1:3210'),
+    // 12 in use; tests may lower it to 10 (OWASP's floor for bcrypt) to keep the suite quick.
+    BCRYPT_COST: z.coerce.number().int().min(10, 'at least 10').max(15, 'at most 15').default(12),
     LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error', 'silent']).default('info'),
   })
   .transform((env, ctx) => {

@@ -38,7 +38,7 @@ export async function start(options: StartOptions = {}): Promise<Running> {
   await dataSource.initialize()
   const ran = await dataSource.runMigrations({ transaction: 'each' })
   if (ran.length) logger.info('migrations applied', { names: ran.map((m) => m.name) })
-  if (options.seed) await seedDemo(dataSource)
+  if (options.seed) await seedDemo(dataSource, config.BCRYPT_COST)
 
   const bundle = createApp({ config, dataSource })
   const server = createServer(bundle.app)

@@ -34,7 +34,7 @@ export type DemoRoomKey = (typeof demoRooms)[number]['key']
  * Inserts the demo users and rooms if missing (safe to run at every start). Returns the room ids
  * by key so later steps (e.g. storing a demo frame in the room document) can find them.
  */
-export async function seedDemo(dataSource: DataSource): Promise<Record<DemoRoomKey, string>> {
+export async function seedDemo(dataSource: DataSource, bcryptCost = BCRYPT_COST): Promise<Record<DemoRoomKey, string>> {
   return dataSource.transaction(async (em) => {
     const users = em.getRepository(UserEntity)
     const rooms = em.getRepository(RoomEntity)
@@ -48,7 +48,7 @@ export async function seedDemo(dataSource: DataSource): Promise<Record<DemoRoomK
         continue
       }
       const id = randomUUID()
-      const passwordHash = await bcrypt.hash(account.password, BCRYPT_COST)
+      const passwordHash = await bcrypt.hash(account.password, bcryptCost)
       await users.insert({ id, email: account.email, name: account.name, passwordHash })
       userIds.push(id)
     }

@@ -6,7 +6,7 @@ import { AppError } from '../../lib/app-error.js'
 import type { SignUpBody } from './auth-schema.js'
 import { usersRepository } from './users-repository.js'
 
-/** bcrypt work factor: 12 rounds (OWASP password storage cheat sheet asks for at least 10). */
+/** Default bcrypt work factor: 12 rounds (OWASP's password storage cheat sheet asks for at least 10). */
 export const BCRYPT_COST = 12
 
 /** What the API shows of a user: never the hash. */
@@ -18,18 +18,17 @@ export interface PublicUser {
 
 export const publicUser = (u: User): PublicUser => ({ id: u.id, email: u.email, name: u.name })
 
-// Compared against when the e-mail is unknown, so a wrong e-mail costs as long as a wrong password.
-const dummyHash = bcrypt.hashSync('veilroom-timing-equaliser', BCRYPT_COST)
-
-export function authService(dataSource: DataSource) {
+export function authService(dataSource: DataSource, bcryptCost = BCRYPT_COST) {
   const users = usersRepository(dataSource)
+  // Compared against when the e-mail is unknown, so a wrong e-mail costs as long as a wrong password.
+  const dummyHash = bcrypt.hashSync('veilroom-timing-equaliser', bcryptCost)
   return {
     /** Creates an account; 409 'email_taken' (field email) if the address is registered. */
     async signUp(input: SignUpBody): Promise<PublicUser> {
       if (await users.findByEmail(input.email)) {
         throw new AppError('email_taken', 409, 'An account with this e-mail already exists.', 'email')
       }
-      const passwordHash = await bcrypt.hash(input.password, BCRYPT_COST)
+      const passwordHash = await bcrypt.hash(input.password, bcryptCost)
       const user = await users.insert({ id: randomUUID(), email: input.email, name: input.name, passwordHash })
       return publicUser(user)
     },
