@@ -34,7 +34,7 @@ interface Slot {
   job: Job | null
 }
 
-const workerUrl = new URL('./solve-worker.ts', import.meta.url)
+const workerUrl = new URL('./solve-worker-boot.mjs', import.meta.url)
 
 export class SolvePool {
   private readonly slots: (Slot | null)[]
@@ -131,13 +131,15 @@ export class SolvePool {
     if (previous !== undefined && previous !== index) this.slots[previous]?.worker.postMessage({ type: 'forget', roomId: job.roomId } satisfies ToWorker)
     this.home.set(job.roomId, index)
     slot.job = job
+    // Only an idle pool may let the process exit.
+    slot.worker.ref()
     const message: ToWorker = { type: 'solve', jobId: job.id, roomId: job.roomId, frame: job.frame, coarse: job.coarse, cancel: job.flag.buffer as SharedArrayBuffer }
     slot.worker.postMessage(message)
   }
 
   private spawn(index: number): Slot {
-    // tsx's loader lets the worker import the TypeScript engine directly (also under vitest).
-    const worker = new Worker(workerUrl, { execArgv: ['--import', 'tsx'] })
+    // The boot file registers tsx, so the worker imports the TypeScript engine directly.
+    const worker = new Worker(workerUrl)
     const slot: Slot = { worker, job: null }
     this.slots[index] = slot
     worker.on('message', (m: FromWorker) => this.onMessage(slot, m))
@@ -170,6 +172,7 @@ export class SolvePool {
   private finish(slot: Slot, outcome: SolveOutcome): void {
     const job = slot.job
     slot.job = null
+    slot.worker.unref()
     job?.resolve(outcome)
     if (!this.closed) this.dispatch()
   }
