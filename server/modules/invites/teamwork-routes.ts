@@ -1,0 +1,35 @@
+import { Router } from 'express'
+import type { DataSource } from 'typeorm'
+import type { Config } from '../../config.js'
+import { devMailboxRoutes } from '../../mail/dev-mailbox-routes.js'
+import { loadMailConfig, type MailConfig } from '../../mail/mail-config.js'
+import { createMailer } from '../../mail/mailer.js'
+import { pinsRoutes } from '../pins/pins-routes.js'
+import { pinsService } from '../pins/pins-service.js'
+import type { RoomLive } from '../snapshots/room-live.js'
+import { invitesRoutes } from './invites-routes.js'
+import { invitesService } from './invites-service.js'
+import { membersService } from './members-service.js'
+
+export interface TeamworkDeps {
+  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV'>
+  dataSource: DataSource
+  /** The live room (server/realtime): frames, surfaces, room broadcasts, closing sockets. */
+  live: RoomLive
+  /** Defaults to SMTP_* from the environment. */
+  mail?: MailConfig
+}
+
+/**
+ * Everything a team does around a room: invites and members, pins, snapshots, files, and the dev
+ * mailbox. Mount on the /api router (after the session, passport and CSRF middleware).
+ */
+export function teamworkRoutes({ config, dataSource, live, mail = loadMailConfig() }: TeamworkDeps): Router {
+  const router = Router()
+  const mailer = createMailer(mail)
+  const invites = invitesService({ dataSource, mailer, publicUrl: config.PUBLIC_URL })
+  router.use(invitesRoutes(dataSource, invites, membersService(dataSource, live)))
+  router.use(pinsRoutes(dataSource, pinsService(dataSource, live)))
+  router.use('/dev', devMailboxRoutes({ dataSource, production: config.NODE_ENV === 'production' }))
+  return router
+}

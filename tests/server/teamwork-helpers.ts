@@ -1,0 +1,119 @@
+import { randomUUID } from 'node:crypto'
+import type { DataSource } from 'typeorm'
+import { loadConfig } from '../../server/config.js'
+import { createDataSource } from '../../server/db/data-source.js'
+import { MembershipEntity, type RoomRole } from '../../server/db/entities/index.js'
+import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp.js'
+import { loadMailConfig } from '../../server/mail/mail-config.js'
+import { dbMailbox } from '../../server/mail/mailbox.js'
+import type { Running } from '../../server/main.js'
+import { teamworkRoutes } from '../../server/modules/invites/teamwork-routes.js'
+import type { RoomLive } from '../../server/modules/snapshots/room-live.js'
+import { ApiClient, startTestServer } from '../helpers/test-server.js'
+
+/** Records what the team-work routes ask of the live room, and forwards to the real one if any. */
+export interface RecordingLive extends RoomLive {
+  emitted: { roomId: string; event: string; payload: any }[]
+  closed: { roomId?: string; userId?: string }[]
+}
+
+export function recordingLive(inner?: Partial<RoomLive>): RecordingLive {
+  const live: RecordingLive = {
+    emitted: [],
+    closed: [],
+    getRoomFrame: (roomId) => inner?.getRoomFrame?.(roomId) ?? Promise.resolve({ frame: null, version: 0 }),
+    getLatestSurface: (roomId) => inner?.getLatestSurface?.(roomId) ?? Promise.resolve(null),
+    emitToRoom(roomId, event, payload) {
+      live.emitted.push({ roomId, event, payload })
+      inner?.emitToRoom?.(roomId, event, payload)
+    },
+    closeRoomSockets(roomId, userId) {
+      live.closed.push({ roomId, userId })
+      inner?.closeRoomSockets?.(roomId, userId)
+    },
+  }
+  return live
+}
+
+export interface TeamworkServer {
+  server: Running
+  url: string
+  live: RecordingLive
+  smtp: FakeSmtp
+  client: () => ApiClient
+  stop: () => Promise<void>
+}
+
+/**
+ * The real app on port 0 with the team-work routes mounted, and a fake SMTP server on a random port
+ * that files mail into the test database (read back through GET /api/dev/mailbox).
+ */
+export async function startTeamworkServer(inner?: Partial<RoomLive>): Promise<TeamworkServer> {
+  const config = loadConfig({ ...process.env, NODE_ENV: 'test' })
+  const mailData = await createDataSource(config).initialize()
+  const smtp = await startFakeSmtp(dbMailbox(mailData), 0)
+  const server = await startTestServer()
+  const live = recordingLive(inner)
+  server.api.use(teamworkRoutes({ config: server.config, dataSource: server.dataSource, live, mail: { ...loadMailConfig({}), port: smtp.port } }))
+  return {
+    server,
+    url: server.url,
+    live,
+    smtp,
+    client: () => new ApiClient(server.url),
+    stop: async () => {
+      await server.stop()
+      await smtp.close()
+      await mailData.destroy()
+    },
+  }
+}
+
+export interface RoomCast {
+  roomId: string
+  clients: Record<RoomRole | 'outsider' | 'signedOut', ApiClient>
+  ids: Record<RoomRole | 'outsider', string>
+}
+
+/** A room with one signed-in member per role, an outsider and a signed-out client. */
+export async function roomWithCast(tw: TeamworkServer, name = 'Courtyard canopy test room'): Promise<RoomCast> {
+  const owner = tw.client()
+  const ownerUser = await owner.signUpFresh('owner', 'Olga Owner')
+  const room = await owner.post('/api/rooms', { name, description: 'test' })
+  if (room.status !== 201) throw new Error(`room create failed: ${room.status}`)
+  const roomId: string = room.body.room.id
+  const clients = { owner } as RoomCast['clients']
+  const ids = { owner: ownerUser.id } as RoomCast['ids']
+  for (const role of ['editor', 'reviewer', 'viewer'] as const) {
+    const c = tw.client()
+    const u = await c.signUpFresh(role, `${role[0]!.toUpperCase()}${role.slice(1)} Person`)
+    await addMember(tw.server.dataSource, roomId, u.id, role)
+    clients[role] = c
+    ids[role] = u.id
+  }
+  clients.outsider = tw.client()
+  ids.outsider = (await clients.outsider.signUpFresh('outsider', 'Oscar Outsider')).id
+  clients.signedOut = tw.client()
+  return { roomId, clients, ids }
+}
+
+export async function addMember(dataSource: DataSource, roomId: string, userId: string, role: RoomRole): Promise<void> {
+  await dataSource.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId, userId, role })
+}
+
+/** Ids of the mail already delivered to `to`, so a test can wait for the next one. */
+export async function mailIds(client: ApiClient, to: string): Promise<Set<string>> {
+  const reply = await client.get(`/api/dev/mailbox?to=${encodeURIComponent(to)}`)
+  return new Set((reply.body.messages ?? []).map((m: { id: string }) => m.id))
+}
+
+/** The newest mail to `to` not in `seen`, waiting briefly (SMTP delivery is asynchronous). */
+export async function mailTo(client: ApiClient, to: string, seen = new Set<string>()): Promise<{ subject: string; text: string; html?: string }> {
+  for (let i = 0; i < 50; i++) {
+    const reply = await client.get(`/api/dev/mailbox?to=${encodeURIComponent(to)}`)
+    const m = (reply.body.messages ?? []).find((x: { id: string }) => !seen.has(x.id))
+    if (m) return m
+    await new Promise((r) => setTimeout(r, 100))
+  }
+  throw new Error(`no new mail to ${to}`)
+}
