@@ -1,0 +1,63 @@
+/**
+ * Figure differences between two snapshots, for the comparison table: B minus A, and B relative
+ * to A where A is not zero. Cables are matched by loop and edge index, the way figures name them.
+ */
+import type { SnapshotFigures } from '../api/team'
+
+export interface FigureRow {
+  key: string
+  label: string
+  unit: string
+  a: number | null
+  b: number | null
+  /** b − a; null when either side lacks the figure. */
+  diff: number | null
+  /** (b − a) / |a|; null when a is 0 or missing. */
+  relative: number | null
+}
+
+function row(key: string, label: string, unit: string, a: number | null | undefined, b: number | null | undefined): FigureRow {
+  const av = a ?? null
+  const bv = b ?? null
+  const diff = av !== null && bv !== null ? bv - av : null
+  const relative = diff !== null && av !== null && av !== 0 ? diff / Math.abs(av) : null
+  return { key, label, unit, a: av, b: bv, diff, relative }
+}
+
+/** One row per figure: areas, perimeter, height and slope ranges, flat share, cables. */
+export function figureDifferences(a: Readonly<SnapshotFigures>, b: Readonly<SnapshotFigures>): FigureRow[] {
+  const rows = [
+    row('area', 'Fabric area', 'm²', a.area, b.area),
+    row('planArea', 'Plan area', 'm²', a.planArea, b.planArea),
+    row('perimeter', 'Perimeter', 'm', a.perimeter, b.perimeter),
+    row('heightMin', 'Lowest point', 'm', a.heightRange[0], b.heightRange[0]),
+    row('heightMax', 'Highest point', 'm', a.heightRange[1], b.heightRange[1]),
+    row('slopeMin', 'Flattest slope', '°', a.slopeRange[0], b.slopeRange[0]),
+    row('slopeMax', 'Steepest slope', '°', a.slopeRange[1], b.slopeRange[1]),
+    row('flatShare', 'Flat share', '%', a.flatShare * 100, b.flatShare * 100),
+  ]
+  const count = (f: Readonly<SnapshotFigures>) => f.cables?.length ?? f.cableCount ?? null
+  rows.push(row('cableCount', 'Cable edges', '', count(a), count(b)))
+  const keyOf = (c: { loop: number; edge: number }) => `${c.loop}:${c.edge}`
+  const ca = new Map((a.cables ?? []).map((c) => [keyOf(c), c]))
+  const cb = new Map((b.cables ?? []).map((c) => [keyOf(c), c]))
+  const keys = [...new Set([...ca.keys(), ...cb.keys()])].sort((x, y) => {
+    const [lx, ex] = x.split(':').map(Number) as [number, number]
+    const [ly, ey] = y.split(':').map(Number) as [number, number]
+    return lx - ly || ex - ey
+  })
+  for (const k of keys) {
+    const [loop, edge] = k.split(':').map(Number) as [number, number]
+    const name = `Cable loop ${loop + 1} edge ${edge + 1}`
+    rows.push(row(`cable${k}:length`, `${name}: length`, 'm', ca.get(k)?.length, cb.get(k)?.length))
+    rows.push(row(`cable${k}:force`, `${name}: force`, 'kN', ca.get(k)?.force, cb.get(k)?.force))
+  }
+  return rows
+}
+
+/** A difference as shown: sign always, fixed decimals, "—" when unknown. */
+export function formatDiff(value: number | null, decimals = 2): string {
+  if (value === null || !Number.isFinite(value)) return '—'
+  const s = value.toFixed(decimals)
+  return value > 0 ? `+${s}` : s === `-${(0).toFixed(decimals)}` ? (0).toFixed(decimals) : s
+}
