@@ -1,0 +1,7 @@
+export { FrameError, type FrameErrorCode } from './frame-error'
+export { parseFrameJson } from './parse-json'
+export { parseFrameCsv, type CsvFrameOptions } from './parse-csv'
+export { frameToJson, frameToCsv } from './serialise'
+export { validateFrame } from './validate'
+export { frameNeedsSpatialSolve, frameNeedsParametricMesh, frameIsHeightField, frameHasCables } from './classify'
+export { MAX_FRAME_POINTS, MAX_ESTIMATED_VERTICES, DEFAULT_PRESTRESS } from './schema'
