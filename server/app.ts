@@ -36,10 +36,13 @@ export interface AppBundle {
 export function createApp({ config, dataSource, distDir = resolve(import.meta.dirname, '../dist') }: AppDeps): AppBundle {
   const app = express()
   app.disable('x-powered-by')
+  // Behind a TLS-terminating proxy on this machine, so secure cookies and req.ip work.
   if (config.PUBLIC_URL.startsWith('https:')) app.set('trust proxy', 'loopback')
 
+  const https = config.PUBLIC_URL.startsWith('https:')
   app.use(
     helmet({
+      strictTransportSecurity: https,
       contentSecurityPolicy: {
         useDefaults: true,
         directives: {
@@ -50,7 +53,7 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
           'worker-src': ["'self'", 'blob:'],
           'img-src': ["'self'", 'data:', 'blob:'],
           'font-src': ["'self'", 'data:'],
-          'upgrade-insecure-requests': config.PUBLIC_URL.startsWith('https:') ? [] : null,
+          'upgrade-insecure-requests': https ? [] : null,
         },
       },
     }),
