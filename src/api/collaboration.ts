@@ -9,6 +9,7 @@ import { WebsocketProvider } from 'y-websocket'
 import type { Awareness } from 'y-protocols/awareness'
 import { frameMap } from '../../shared/room-doc/schema.ts'
 import type { RoomRole } from './schemas'
+import { canEditFrame } from '../lib/roles'
 
 export interface PresenceUser {
   id: string
@@ -30,9 +31,6 @@ export interface PresenceState {
 }
 
 export type SyncStatus = 'connecting' | 'connected' | 'disconnected'
-
-/** Roles whose edits the server accepts. */
-export const canEditFrame = (role: RoomRole): boolean => role === 'owner' || role === 'editor'
 
 // Our own set: distinct on the pale page and against the surface ramps.
 const PRESENCE_COLOURS = ['#c2571a', '#3f6fb5', '#8a4fa3', '#2e8b57', '#b03a63', '#a07a12', '#1f8a99', '#6b5b3e']

@@ -5,6 +5,7 @@
  * sees well-formed Float32Array / Uint32Array data.
  */
 import { io, type Socket } from 'socket.io-client'
+import { z } from 'zod'
 import type { Figures, SolverReport, SolverState } from '../../shared/types.ts'
 import type { RoomRole } from './schemas'
 import { roomRoles } from './schemas'
@@ -81,6 +82,43 @@ export const asUint32 = (value: unknown, field: string): Uint32Array => wrap(val
 /** Uint8Array from an ArrayBuffer, Buffer or typed array. */
 export const asUint8 = (value: unknown, field: string): Uint8Array => wrap(value, Uint8Array, field)
 
+const num = z.number()
+const range = z.tuple([num, num])
+// Checked at the edge so a drift in the engine's figures shows as one message naming the field,
+// not as a blank panel.
+const figuresSchema = z.object({
+  area: num,
+  planArea: num,
+  perimeter: num,
+  cables: z.array(z.object({ loop: z.number().int(), edge: z.number().int(), length: num, force: num, sag: num })),
+  heightRange: range,
+  slopeRange: range,
+  slopeHistogram: z.object({ edges: z.array(num), shares: z.array(num) }),
+  flatThreshold: num,
+  flatShare: num,
+  pondingPockets: z.array(z.object({ x: num, y: num, z: num, area: num })),
+  anticlasticShare: num,
+  reactions: z.array(z.tuple([num, num, num, num, num])),
+  residual: num,
+  minAngle: num,
+})
+const solverSchema = z.object({
+  method: z.string(),
+  iterations: num,
+  residual: num,
+  converged: z.boolean(),
+  reason: z.string().optional(),
+  ms: num,
+})
+
+function parse<T>(schema: z.ZodType<T>, value: unknown, field: string): T {
+  const r = schema.safeParse(value)
+  if (r.success) return r.data
+  const issue = r.error.issues[0]
+  const path = [field, ...(issue?.path ?? []).map(String)].join('.')
+  throw new Error(`${path}: ${issue?.message ?? 'invalid'}`)
+}
+
 /** Reads a `surface` message; throws an Error naming the field for anything malformed. */
 export function readSurface(raw: unknown): SurfaceMessage {
   if (typeof raw !== 'object' || raw === null) throw new Error('surface: expected an object')
@@ -95,8 +133,6 @@ export function readSurface(raw: unknown): SurfaceMessage {
   for (const index of triangles) {
     if (index >= count) throw new Error(`surface.triangles: vertex index ${index} is out of range (${count} vertices)`)
   }
-  if (typeof m.figures !== 'object' || m.figures === null) throw new Error('surface.figures: expected an object')
-  if (typeof m.solver !== 'object' || m.solver === null) throw new Error('surface.solver: expected an object')
   return {
     roomId: m.roomId,
     version: m.version,
@@ -104,8 +140,8 @@ export function readSurface(raw: unknown): SurfaceMessage {
     coarse: m.coarse === true,
     vertices,
     triangles,
-    figures: m.figures as Figures,
-    solver: m.solver as SolverReport,
+    figures: parse(figuresSchema, m.figures, 'surface.figures'),
+    solver: parse(solverSchema, m.solver, 'surface.solver'),
   }
 }
 

@@ -4,11 +4,12 @@ import type { Figures, SolverReport } from '../../shared/types.ts'
 import * as edits from '../../shared/room-doc/edits.ts'
 import type { EdgeKind } from '../../shared/types.ts'
 import {
-  canEditFrame, includesClock, openRoomDocument, ownClock, trackPeers,
+  includesClock, openRoomDocument, ownClock, trackPeers,
   type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,
 } from '../api/collaboration'
 import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
 import type { RoomRole } from '../api/schemas'
+import { canEditFrame } from '../lib/roles'
 import type { ColourMode } from '../components/workbench/colour-maps'
 import { frameRows, readFrameView, type FrameView } from '../components/workbench/frame-view'
 import { DEFAULT_SNAP_STEP } from '../components/workbench/snapping'
@@ -144,18 +145,23 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     synced.value = false
   }
 
-  /** Runs an edit as ours (undoable) unless read-only; returns the edit's result. */
-  function edit<T>(run: (c: Collaboration) => T): T | undefined {
+  /**
+   * Runs an edit as ours (undoable) unless read-only; returns the edit's result. Edits are their own
+   * undo step unless `merge` (the moves of one drag merge into one step).
+   */
+  function edit<T>(run: (c: Collaboration) => T, merge = false): T | undefined {
     const c = collab
     if (!c || readOnly.value) return undefined
+    if (!merge) c.undo.stopCapturing()
     const result = run(c)
+    if (!merge) c.undo.stopCapturing()
     lastOwnClock.value = ownClock(c.doc)
     return result
   }
 
   /** Moves a frame point (m). */
   const move = (loopId: string, pointId: string, to: { x?: number; y?: number; z?: number }) =>
-    edit((c) => edits.movePoint(c.doc, loopId, pointId, to, c.origin))
+    edit((c) => edits.movePoint(c.doc, loopId, pointId, to, c.origin), true)
   /** Inserts a point on the edge that starts at `afterPointId` and selects it. */
   function insertAfter(loopId: string, afterPointId: string, at: { x: number; y: number; z: number }): void {
     const id = edit((c) => edits.insertPointAfter(c.doc, loopId, afterPointId, at, c.origin))
@@ -173,15 +179,19 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   /** Adds a hole loop from ring points. */
   const addHole = (points: { x: number; y: number; z: number }[]) => edit((c) => edits.addHole(c.doc, points, c.origin))
   /** Removes a hole loop. */
-  const removeHole = (loopId: string) => edit((c) => edits.removeHole(c.doc, loopId, c.origin))
+  function removeHole(loopId: string): boolean {
+    const ok = edit((c) => edits.removeHole(c.doc, loopId, c.origin)) ?? false
+    if (ok && selection.value?.loopId === loopId) select(null)
+    return ok
+  }
   /** Sets prestress (kN/m) and/or element size (m). */
   const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) => edit((c) => edits.setSettings(c.doc, s, c.origin))
   /** Ends the current undo step, so the next edit (a new drag) undoes separately. */
   const stopCapturing = (): void => collab?.undo.stopCapturing()
   /** Undoes my own latest edit (never a peer's). */
-  const undo = (): void => void edit((c) => c.undo.undo())
+  const undo = (): void => void edit((c) => c.undo.undo(), true)
   /** Redoes my own latest undone edit. */
-  const redo = (): void => void edit((c) => c.undo.redo())
+  const redo = (): void => void edit((c) => c.undo.redo(), true)
 
   /** Selects a point (or none) and shows peers that I hold it. */
   function select(sel: HeldPoint | null): void {

@@ -1,0 +1,164 @@
+/**
+ * The three.js stage of the workbench: renderer, scene, a z-up perspective camera for 3D and a
+ * top-down orthographic camera for plan, each with its own OrbitControls (the plan one cannot
+ * rotate). Frames are rendered on demand only — after a control change, a data change or a resize —
+ * so an idle room costs nothing.
+ */
+import { onBeforeUnmount, onMounted, shallowRef, type Ref } from 'vue'
+import * as THREE from 'three'
+import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js'
+
+export type ViewMode = 'plan' | '3d'
+
+export interface Viewport {
+  scene: THREE.Scene
+  camera(): THREE.Camera
+  controls(): OrbitControls
+  /** Schedules one render on the next animation frame (repeated calls coalesce). */
+  requestRender(): void
+  setMode(mode: ViewMode): void
+  /** Frames a plan box (m) in both cameras. */
+  fit(min: THREE.Vector3Like, max: THREE.Vector3Like): void
+  /** Screen position (CSS px relative to the canvas) of a world point. */
+  project(p: THREE.Vector3Like): { x: number; y: number }
+  /** World ray under a pointer event. */
+  ray(ev: { clientX: number; clientY: number }): THREE.Ray
+  /** Metres per CSS pixel at a world point, for vertical drags. */
+  metresPerPixel(at: THREE.Vector3Like): number
+  canvas: HTMLCanvasElement
+}
+
+/** Creates the stage inside `host` once mounted; everything is disposed on unmount. */
+export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode) {
+  const viewport = shallowRef<Viewport | null>(null)
+  let teardown = (): void => {}
+
+  onMounted(() => {
+    const el = host.value
+    if (!el) return
+    const renderer = new THREE.WebGLRenderer({ antialias: true, preserveDrawingBuffer: true })
+    renderer.setPixelRatio(Math.min(window.devicePixelRatio, 2))
+    renderer.setClearColor(0xf7f4ee)
+    const canvas = renderer.domElement
+    canvas.dataset.testid = 'viewport-canvas'
+    canvas.tabIndex = 0
+    el.appendChild(canvas)
+
+    const scene = new THREE.Scene()
+    scene.add(new THREE.HemisphereLight(0xffffff, 0x8a8070, 2.2))
+    const sun = new THREE.DirectionalLight(0xffffff, 1.6)
+    sun.position.set(-30, -40, 60)
+    scene.add(sun)
+
+    const persp = new THREE.PerspectiveCamera(45, 1, 0.05, 2000)
+    persp.up.set(0, 0, 1)
+    const ortho = new THREE.OrthographicCamera(-10, 10, 10, -10, -1000, 1000)
+    ortho.up.set(0, 1, 0)
+    const perspControls = new OrbitControls(persp, canvas)
+    const orthoControls = new OrbitControls(ortho, canvas)
+    orthoControls.enableRotate = false
+    orthoControls.screenSpacePanning = true
+    let mode: ViewMode = initialMode
+    const active = () => (mode === 'plan' ? { cam: ortho, ctl: orthoControls } : { cam: persp, ctl: perspControls })
+
+    let pending = 0
+    const render = (): void => {
+      pending = 0
+      renderer.render(scene, active().cam)
+    }
+    const requestRender = (): void => {
+      if (!pending) pending = requestAnimationFrame(render)
+    }
+    perspControls.addEventListener('change', requestRender)
+    orthoControls.addEventListener('change', requestRender)
+
+    const resize = (): void => {
+      const w = Math.max(1, el.clientWidth)
+      const h = Math.max(1, el.clientHeight)
+      renderer.setSize(w, h)
+      persp.aspect = w / h
+      persp.updateProjectionMatrix()
+      const halfH = (ortho.top - ortho.bottom) / 2
+      const cx = (ortho.left + ortho.right) / 2
+      ortho.left = cx - (halfH * w) / h
+      ortho.right = cx + (halfH * w) / h
+      ortho.updateProjectionMatrix()
+      requestRender()
+    }
+    const observer = new ResizeObserver(resize)
+    observer.observe(el)
+
+    const setMode = (m: ViewMode): void => {
+      mode = m
+      perspControls.enabled = m === '3d'
+      orthoControls.enabled = m === 'plan'
+      requestRender()
+    }
+
+    const fit = (min: THREE.Vector3Like, max: THREE.Vector3Like): void => {
+      const c = new THREE.Vector3((min.x + max.x) / 2, (min.y + max.y) / 2, (min.z + max.z) / 2)
+      const size = Math.max(max.x - min.x, max.y - min.y, max.z - min.z, 2)
+      persp.position.set(c.x - 0.9 * size, c.y - 1.3 * size, c.z + 0.9 * size)
+      perspControls.target.copy(c)
+      perspControls.update()
+      const aspect = Math.max(1, el.clientWidth) / Math.max(1, el.clientHeight)
+      const half = 0.7 * size
+      Object.assign(ortho, { left: -half * aspect, right: half * aspect, top: half, bottom: -half, zoom: 1 })
+      ortho.position.set(c.x, c.y, 500)
+      orthoControls.target.set(c.x, c.y, 0)
+      ortho.updateProjectionMatrix()
+      orthoControls.update()
+      requestRender()
+    }
+
+    const ndc = (ev: { clientX: number; clientY: number }): THREE.Vector2 => {
+      const r = canvas.getBoundingClientRect()
+      return new THREE.Vector2(((ev.clientX - r.left) / r.width) * 2 - 1, -((ev.clientY - r.top) / r.height) * 2 + 1)
+    }
+    const raycaster = new THREE.Raycaster()
+    const ray = (ev: { clientX: number; clientY: number }): THREE.Ray => {
+      raycaster.setFromCamera(ndc(ev), active().cam)
+      return raycaster.ray.clone()
+    }
+    const project = (p: THREE.Vector3Like): { x: number; y: number } => {
+      const v = new THREE.Vector3(p.x, p.y, p.z).project(active().cam)
+      return { x: ((v.x + 1) / 2) * canvas.clientWidth, y: ((1 - v.y) / 2) * canvas.clientHeight }
+    }
+    const metresPerPixel = (at: THREE.Vector3Like): number => {
+      const h = Math.max(1, canvas.clientHeight)
+      if (mode === 'plan') return (ortho.top - ortho.bottom) / ortho.zoom / h
+      const d = persp.position.distanceTo(new THREE.Vector3(at.x, at.y, at.z))
+      return (2 * d * Math.tan(THREE.MathUtils.degToRad(persp.fov / 2))) / h
+    }
+
+    setMode(initialMode)
+    resize()
+    viewport.value = {
+      scene, canvas, requestRender, setMode, fit, project, ray, metresPerPixel,
+      camera: () => active().cam,
+      controls: () => active().ctl,
+    }
+    teardown = () => {
+      if (pending) cancelAnimationFrame(pending)
+      observer.disconnect()
+      perspControls.dispose()
+      orthoControls.dispose()
+      scene.traverse((o) => {
+        if (o instanceof THREE.Mesh || o instanceof THREE.LineSegments) {
+          o.geometry.dispose()
+          const m = o.material as THREE.Material | THREE.Material[]
+          for (const mat of Array.isArray(m) ? m : [m]) mat.dispose()
+        }
+      })
+      renderer.dispose()
+      canvas.remove()
+    }
+  })
+
+  onBeforeUnmount(() => {
+    teardown()
+    viewport.value = null
+  })
+
+  return viewport
+}
