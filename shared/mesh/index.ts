@@ -1,4 +1,7 @@
 export { meshFrame } from './mesh-frame'
+export { meshParametric, type ParametricMesh } from './mesh-parametric'
+export { remapMesh } from './remap-mesh'
 export { MeshError } from './mesh-error'
 export * from './quantities'
+export { loopSignedArea, pointInLoop } from './plan-geometry'
 export { EPSILON } from './constants'
