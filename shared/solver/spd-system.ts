@@ -1,6 +1,7 @@
 import { conjugateGradients } from '../linalg/conjugate-gradients'
 import { ldlFactor, ldlSolve, ldlSymbolic, type LdlFactor, type LdlSymbolic } from '../linalg/ldl'
 import { minimumDegreeOrdering } from '../linalg/minimum-degree'
+import type { SymmetricCsr } from '../linalg/csr'
 import type { TrianglePattern } from '../linalg/triangle-pattern'
 
 /**
@@ -9,14 +10,14 @@ import type { TrianglePattern } from '../linalg/triangle-pattern'
  * preconditioner for later matrices of the same pattern until PCG gets slow, then refactored.
  * The caller assembles pattern.matrix.values before each solve.
  */
-export class SpdSystem {
+export class SpdSystem<P extends { readonly matrix: SymmetricCsr } = TrianglePattern> {
   private symbolic: LdlSymbolic | undefined
   private factor: LdlFactor | undefined
   /** Counters for reports and benchmarks. */
   factorisations = 0
   pcgIterations = 0
 
-  constructor(readonly pattern: TrianglePattern) {}
+  constructor(readonly pattern: P) {}
 
   get size(): number {
     return this.pattern.matrix.n
