@@ -1,2 +1,2 @@
-/** Relative tolerance for geometric predicates and degenerate-length checks (dimensionless). */
-export const EPSILON = 1e-12
+/** The one shared tolerance lives in shared/linalg/constants.ts; re-exported for mesh code. */
+export { EPSILON } from '../linalg/constants'
