@@ -1,0 +1,130 @@
+/**
+ * The form-finding engine: frame in, solved surface out. Chooses the path (height field or spatial),
+ * keeps the mesh, the factorisations and the last solution between calls so that an edit that only
+ * moves frame points re-solves warm. Pure TypeScript: runs in a worker thread and in the browser.
+ * Caution: form-finding is preliminary; loads, stresses, patterning, anchors and connections are
+ * checked by a qualified engineer under local codes.
+ */
+import { computeFigures } from './figures'
+import { frameNeedsParametricMesh, frameNeedsSpatialSolve, validateFrame } from './frame'
+import { meshFrame, meshParametric, remapMesh } from './mesh'
+import { frameConstraints, frameStructureKey, isotropicPrestress } from './solver/frame-problem'
+import { solveHeightField } from './solver/height-field'
+import { solveSpatial, type SpatialSetup } from './solver/spatial'
+import type { SpdSystem } from './solver/spd-system'
+import type { Frame, MembraneMesh, SolverReport, SurfaceResult } from './types'
+
+export interface EngineOptions {
+  /** Called after every solver iteration with the dimensionless residual. */
+  onProgress?(iteration: number, residual: number): void
+  /** Checked between iterations; when aborted the result is unsettled with reason 'cancelled'. */
+  signal?: { readonly aborted: boolean }
+  /** Dimensionless residual to reach (default 1e-10). */
+  tolerance?: number
+  maxIterations?: number
+}
+
+export interface EngineResult {
+  /** The frame's mesh with solved vertices (#V×3, m). */
+  mesh: MembraneMesh
+  report: SolverReport
+}
+
+export interface FormFinder {
+  /** Solve `frame` (validated here: FrameError names the field); warm when only points moved. */
+  solve(frame: Readonly<Frame>, options?: EngineOptions): EngineResult
+  /** Forget the cached mesh, factorisations and solution. */
+  reset(): void
+}
+
+interface Cache {
+  structureKey: string
+  /** The mesh as meshed or remapped for the last frame (start positions, not solved). */
+  mesh: MembraneMesh
+  /** Last solved positions when they were settled, for warm starts. */
+  solved: Float64Array | undefined
+  heightSystem?: SpdSystem
+  spatial?: SpatialSetup
+}
+
+/** A stateful form finder for one room (one frame edited over time). */
+export function createFormFinder(): FormFinder {
+  let cache: Cache | undefined
+  return {
+    reset() {
+      cache = undefined
+    },
+    solve(input, options = {}) {
+      const frame = validateFrame(input as Frame)
+      const structureKey = frameStructureKey(frame)
+      const parametric = frameNeedsParametricMesh(frame)
+      let mesh: MembraneMesh | null = null
+      if (cache && cache.structureKey === structureKey) {
+        mesh = parametric ? meshParametric(frame).mesh : remapMesh(cache.mesh, frame)
+        if (mesh && mesh.topologyKey !== cache.mesh.topologyKey) mesh = null
+      }
+      const previous = mesh ? cache : undefined
+      mesh ??= parametric ? meshParametric(frame).mesh : meshFrame(frame)
+      const next: Cache = { structureKey, mesh, solved: undefined, ...(previous ? { heightSystem: previous.heightSystem, spatial: previous.spatial } : {}) }
+      const { vertices, report } = solveOnMesh(frame, mesh, next, previous?.solved, options)
+      const finite = vertices.every(Number.isFinite)
+      next.solved = finite && report.converged ? vertices : undefined
+      cache = next
+      if (!finite) {
+        return { mesh, report: { ...report, converged: false, reason: 'diverged', residual: Number.MAX_VALUE } }
+      }
+      return { mesh: { ...mesh, vertices }, report }
+    },
+  }
+}
+
+/** Runs the right path on `mesh`, warm from `solved` when given; updates the systems in `cache`. */
+function solveOnMesh(
+  frame: Readonly<Frame>,
+  mesh: Readonly<MembraneMesh>,
+  cache: Cache,
+  solved: Float64Array | undefined,
+  control: EngineOptions,
+): { vertices: Float64Array; report: SolverReport } {
+  const constraints = frameConstraints(mesh, frame)
+  const start = Float64Array.from(mesh.vertices)
+  if (solved) {
+    for (let v = 0; v < constraints.isFixed.length; v++) {
+      // held vertices take the new frame; free ones resume where the last solution left them
+      if (constraints.isFixed[v]) continue
+      if (frameNeedsSpatialSolve(frame)) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v)
+      else start[3 * v + 2] = solved[3 * v + 2]!
+    }
+  }
+  const spatial = (from: Float64Array, earlier?: SolverReport) => {
+    const problem = { vertices: from, triangles: mesh.triangles, ...constraints, prestress: isotropicPrestress(frame) }
+    const result = solveSpatial(problem, control, cache.spatial)
+    cache.spatial = result.setup
+    const report = earlier
+      ? { ...result.report, method: `${earlier.method}+${result.report.method}`, iterations: earlier.iterations + result.report.iterations, ms: earlier.ms + result.report.ms }
+      : result.report
+    return { vertices: result.vertices, report }
+  }
+  if (frameNeedsSpatialSolve(frame)) return spatial(start)
+  const result = solveHeightField({ vertices: start, triangles: mesh.triangles, isFixed: constraints.isFixed }, control, solved !== undefined, cache.heightSystem)
+  cache.heightSystem = result.system
+  const vertices = Float64Array.from(start)
+  for (let v = 0; v < result.heights.length; v++) vertices[3 * v + 2] = result.heights[v]!
+  if (result.report.converged || result.report.reason === 'cancelled') return { vertices, report: result.report }
+  // the surface may turn vertical (not a height field): continue in 3D from the finite start
+  return spatial(vertices.every(Number.isFinite) ? vertices : start, result.report)
+}
+
+/**
+ * One-shot solve with figures, in the "Surface result" shape of PRODUCT.md (plain arrays, JSON-safe).
+ * Throws FrameError (with the field) for an invalid frame; MeshError when the frame cannot be meshed.
+ */
+export function solveFrame(frame: Readonly<Frame>, options: EngineOptions = {}): SurfaceResult {
+  const { mesh, report } = createFormFinder().solve(frame, options)
+  const figures = computeFigures(mesh, frame, { residual: report.residual })
+  const vertices: [number, number, number][] = []
+  for (let v = 0; v < mesh.vertices.length; v += 3) vertices.push([mesh.vertices[v]!, mesh.vertices[v + 1]!, mesh.vertices[v + 2]!])
+  const triangles: [number, number, number][] = []
+  for (let t = 0; t < mesh.triangles.length; t += 3) triangles.push([mesh.triangles[t]!, mesh.triangles[t + 1]!, mesh.triangles[t + 2]!])
+  return { vertices, triangles, figures, solver: report }
+}
