@@ -67,9 +67,9 @@ export function vertexSlopes(vertices: ArrayLike<number>, triangles: ArrayLike<n
     // Orientation varies between meshers: point every face normal up before summing.
     if (nz < 0) [nx, ny, nz] = [-nx, -ny, -nz]
     for (const i of [a, b, c]) {
-      normals[3 * i] += nx
-      normals[3 * i + 1] += ny
-      normals[3 * i + 2] += nz
+      normals[3 * i] = normals[3 * i]! + nx
+      normals[3 * i + 1] = normals[3 * i + 1]! + ny
+      normals[3 * i + 2] = normals[3 * i + 2]! + nz
     }
   }
   const out = new Float64Array(nv)
