@@ -11,6 +11,7 @@ import { latticePoints } from './lattice'
 import { meshTopologyKey } from './quantities'
 import { orient } from './plan-geometry'
 import { MeshError } from './mesh-error'
+import { frameNeedsParametricMesh } from '../frame/classify'
 import { buildVertexNeighbours, smoothInterior } from './smoothing'
 
 /** How far interior lattice points stay off the boundary, in units of h (0.7 measured best for min angle). */
@@ -23,6 +24,9 @@ const SMOOTHING_SWEEPS = 3
  * short frame edges (≪ h) give small angles next to them (reported in minAngle).
  */
 export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
+  if (frameNeedsParametricMesh(frame)) {
+    throw new MeshError('loops[1]', 'overlaps the outer loop in plan (rings one above the other): use meshParametric')
+  }
   const h = frame.mesh.edgeLength
   const b = resampleLoops(frame, (_l, _e, lp) => Math.round(lp / h))
   const nB = b.loopOf.length
@@ -56,7 +60,8 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
 
   const triangles = new Uint32Array(3 * keep.length)
   keep.forEach((t, k) => {
-    let a = del.triangles[3 * t]!, bb = del.triangles[3 * t + 1]!, c = del.triangles[3 * t + 2]!
+    const a = del.triangles[3 * t]!
+    let bb = del.triangles[3 * t + 1]!, c = del.triangles[3 * t + 2]!
     if (orient(coords[2 * a]!, coords[2 * a + 1]!, coords[2 * bb]!, coords[2 * bb + 1]!, coords[2 * c]!, coords[2 * c + 1]!) < 0) {
       const s = bb
       bb = c

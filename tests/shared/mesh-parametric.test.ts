@@ -36,6 +36,10 @@ describe('meshParametric for two rings one above the other', () => {
     })
   })
 
+  it('is refused by the plan mesher, which names the loop', () => {
+    expect(() => meshFrame(f)).toThrow(/loops\[1\].*meshParametric/)
+  })
+
   it('lofts straight between the rings: area near the cylinder 2π·R·h (elementary geometry)', () => {
     const A = faceAreas(new Float64Array(m.triangles.length / 3), m.vertices, m.triangles).reduce((s, a) => s + a, 0)
     // polygon rings of 20–32 sides: inscribed perimeter error ≤ 1 − sin(π/20)/(π/20) ≈ 0.4 %
