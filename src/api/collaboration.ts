@@ -42,8 +42,12 @@ export function presenceColour(userId: string): string {
   return PRESENCE_COLOURS[h % PRESENCE_COLOURS.length]!
 }
 
+// Read through globalThis so this module also type-checks in the Node test config (no DOM lib).
+const pageLocation = (): { protocol: string; host: string } =>
+  (globalThis as unknown as { location: { protocol: string; host: string } }).location
+
 /** ws(s)://host of the page, where the server answers /sync. */
-export function syncBase(loc: Pick<Location, 'protocol' | 'host'> = location): string {
+export function syncBase(loc: { protocol: string; host: string } = pageLocation()): string {
   return `${loc.protocol === 'https:' ? 'wss:' : 'ws:'}//${loc.host}`
 }
 
