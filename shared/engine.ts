@@ -106,7 +106,9 @@ function solveOnMesh(
     return { vertices: result.vertices, report }
   }
   if (frameNeedsSpatialSolve(frame)) return spatial(start)
-  const result = solveHeightField({ vertices: start, triangles: mesh.triangles, isFixed: constraints.isFixed }, control, solved !== undefined, cache.heightSystem)
+  const previous = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
+  const problem = { vertices: start, triangles: mesh.triangles, isFixed: constraints.isFixed }
+  const result = solveHeightField(problem, control, solved !== undefined, cache.heightSystem, previous)
   cache.heightSystem = result.system
   const vertices = Float64Array.from(start)
   for (let v = 0; v < result.heights.length; v++) vertices[3 * v + 2] = result.heights[v]!

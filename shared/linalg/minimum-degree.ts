@@ -112,7 +112,7 @@ export function minimumDegreeOrdering(a: Readonly<SymmetricCsr>): Int32Array {
       adjVars[i] = vars
       d += vars.length
       remove(i)
-      const bounded = Math.min(d, remaining)
+      const bounded = Math.min(d, remaining, degree[i]! + lp.length - 1)
       insert(i, bounded)
       if (bounded < minDegree) minDegree = bounded
     }

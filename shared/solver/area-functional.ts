@@ -126,3 +126,33 @@ export function assembleAreaHessian(
     }
   }
 }
+
+/**
+ * out = H(u)·delta over all vertices (#V, m): the area Hessian at u applied to a full vector, used
+ * to carry a change of the frame heights into the interior (the linearised response).
+ */
+export function areaHessianProduct(out: Float64Array, plan: Readonly<PlanElements>, u: Readonly<Float64Array>, delta: Readonly<Float64Array>): Float64Array {
+  const { triangles, data } = plan
+  out.fill(0)
+  for (let t = 0, o = 0; o < data.length; t += 3, o += 7) {
+    const i0 = triangles[t]!, i1 = triangles[t + 1]!, i2 = triangles[t + 2]!
+    const d0 = delta[i0]!, d1 = delta[i1]!, d2 = delta[i2]!
+    if (d0 === 0 && d1 === 0 && d2 === 0) continue
+    const u0 = u[i0]!, u1 = u[i1]!, u2 = u[i2]!
+    const gx = u0 * data[o + 1]! + u1 * data[o + 2]! + u2 * data[o + 3]!
+    const gy = u0 * data[o + 4]! + u1 * data[o + 5]! + u2 * data[o + 6]!
+    const w2 = 1 + gx * gx + gy * gy
+    const w = Math.sqrt(w2)
+    const w3 = w2 * w
+    const dx = d0 * data[o + 1]! + d1 * data[o + 2]! + d2 * data[o + 3]!
+    const dy = d0 * data[o + 4]! + d1 * data[o + 5]! + d2 * data[o + 6]!
+    // M·∇δ with M = I/w − g gᵀ/w³, times the plan area
+    const gd = (gx * dx + gy * dy) / w3
+    const mx = data[o]! * (dx / w - gx * gd)
+    const my = data[o]! * (dy / w - gy * gd)
+    out[i0]! += mx * data[o + 1]! + my * data[o + 4]!
+    out[i1]! += mx * data[o + 2]! + my * data[o + 5]!
+    out[i2]! += mx * data[o + 3]! + my * data[o + 6]!
+  }
+  return out
+}

@@ -1,7 +1,7 @@
 import { trianglePattern } from '../linalg/triangle-pattern'
 import type { SolverReport } from '../types'
 import {
-  assembleAreaHessian, heightFieldArea, heightFieldAreaGradient, planElements, type PlanElements,
+  areaHessianProduct, assembleAreaHessian, heightFieldArea, heightFieldAreaGradient, planElements, type PlanElements,
 } from './area-functional'
 import { now, report, type SolveControl } from './control'
 import { SpdSystem } from './spd-system'
@@ -29,7 +29,9 @@ export interface HeightFieldResult {
 /**
  * Minimal surface z = u(x, y) over a plan mesh by Newton's method on the area (see
  * area-functional.ts) with a backtracking line search on the area. Cold start (warm = false): the
- * small-slope solution, Laplace's equation with the frame heights. Warm start: the given z.
+ * small-slope solution, Laplace's equation with the frame heights. Warm start: the given z; with
+ * `previous` (#V heights of the last solution, old frame heights included) the frame's change is
+ * first carried inside by the linearised response H(previous)·δ = −H·Δframe (a predictor step).
  * Residual: max over free vertices of |∂Area/∂u_i| / (vertex plan area) × √(plan area), i.e. the
  * discrete 2H·L, dimensionless. Newton systems are solved by PCG with the kept factor, refactored
  * when PCG slows (SpdSystem). Known limit: frames whose surface turns vertical (not a height field)
@@ -40,6 +42,7 @@ export function solveHeightField(
   control: SolveControl = {},
   warm = false,
   system?: SpdSystem,
+  previous?: Readonly<Float64Array>,
 ): HeightFieldResult {
   const start = now()
   const { vertices, triangles, isFixed } = problem
@@ -74,6 +77,8 @@ export function solveHeightField(
     sys.solveDirect(step, rhs)
     scatterAdd(u, step, freeIndex, 1)
     iterations = 1
+  } else if (previous) {
+    iterations = predict(u, previous, plan, sys, gradient, rhs, step)
   }
   let residual = residualOf(gradient, plan, u, freeIndex, scale)
   control.onProgress?.(iterations, residual)
@@ -137,4 +142,32 @@ function scatterAdd(full: Float64Array, reduced: Readonly<Float64Array>, freeInd
     const f = freeIndex[v]!
     if (f >= 0) full[v]! += t * reduced[f]!
   }
+}
+
+/** Predictor from `previous` toward the new frame heights in u; returns the steps taken (0 or 1). */
+function predict(
+  u: Float64Array,
+  previous: Readonly<Float64Array>,
+  plan: Readonly<PlanElements>,
+  sys: SpdSystem,
+  work: Float64Array,
+  rhs: Float64Array,
+  step: Float64Array,
+): number {
+  const { freeIndex } = sys.pattern
+  const delta = new Float64Array(u.length)
+  let moved = false
+  for (let v = 0; v < u.length; v++) {
+    if (freeIndex[v]! >= 0) continue
+    delta[v] = u[v]! - previous[v]!
+    if (delta[v] !== 0) moved = true
+  }
+  if (!moved) return 0
+  areaHessianProduct(work, plan, previous, delta)
+  gatherNegated(rhs, work, freeIndex)
+  assembleAreaHessian(sys.pattern, plan, previous)
+  sys.solve(step, rhs, 1e-6)
+  for (let v = 0; v < u.length; v++) if (freeIndex[v]! >= 0) u[v] = previous[v]!
+  scatterAdd(u, step, freeIndex, 1)
+  return 1
 }
