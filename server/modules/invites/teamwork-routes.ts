@@ -4,9 +4,12 @@ import type { Config } from '../../config.js'
 import { devMailboxRoutes } from '../../mail/dev-mailbox-routes.js'
 import { loadMailConfig, type MailConfig } from '../../mail/mail-config.js'
 import { createMailer } from '../../mail/mailer.js'
+import { filesRoutes } from '../files/files-routes.js'
 import { pinsRoutes } from '../pins/pins-routes.js'
 import { pinsService } from '../pins/pins-service.js'
 import type { RoomLive } from '../snapshots/room-live.js'
+import { snapshotsRoutes } from '../snapshots/snapshots-routes.js'
+import { snapshotsService } from '../snapshots/snapshots-service.js'
 import { invitesRoutes } from './invites-routes.js'
 import { invitesService } from './invites-service.js'
 import { membersService } from './members-service.js'
@@ -30,6 +33,9 @@ export function teamworkRoutes({ config, dataSource, live, mail = loadMailConfig
   const invites = invitesService({ dataSource, mailer, publicUrl: config.PUBLIC_URL })
   router.use(invitesRoutes(dataSource, invites, membersService(dataSource, live)))
   router.use(pinsRoutes(dataSource, pinsService(dataSource, live)))
+  const snapshots = snapshotsService(dataSource, live)
+  router.use(snapshotsRoutes(dataSource, snapshots))
+  router.use(filesRoutes(dataSource, live, snapshots))
   router.use('/dev', devMailboxRoutes({ dataSource, production: config.NODE_ENV === 'production' }))
   return router
 }
