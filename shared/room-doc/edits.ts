@@ -4,8 +4,8 @@
  * under concurrent inserts and deletes.
  */
 import * as Y from 'yjs'
-import type { EdgeKind } from '../types.ts'
-import { frameMap, loopsOf, makeLoop, makePoint, type YLoop, type YPoint } from './schema.ts'
+import type { EdgeKind } from '../types'
+import { frameMap, loopsOf, makeLoop, makePoint, type YLoop, type YPoint } from './schema'
 
 /** Finds a loop by id, or undefined when a peer removed it. */
 export function findLoop(doc: Y.Doc, loopId: string): YLoop | undefined {

@@ -12,7 +12,7 @@
  * Editing a point that a peer deleted is a no-op in yjs: the drag simply ends.
  */
 import * as Y from 'yjs'
-import type { EdgeKind, Frame } from '../types.ts'
+import type { EdgeKind, Frame } from '../types'
 
 export const FRAME_KEY = 'frame'
 

@@ -2,7 +2,7 @@
  * Starting frames offered when a room is created. Geometry is our own: round figures a designer
  * would sketch first, sized so that each settles at the default element size in well under a second.
  */
-import type { Frame, FrameEdge, FrameLoop, FramePoint } from '../types.ts'
+import type { Frame, FrameEdge, FrameLoop, FramePoint } from '../types'
 
 export type StarterKey = 'sail' | 'tent' | 'arch' | 'cable-rectangle' | 'blank'
 

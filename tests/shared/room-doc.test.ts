@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
-import { readRawFrame, writeFrame, loopsOf } from '../../shared/room-doc/schema.ts'
-import { deletePoint, insertPointAfter, movePoint, setEdge, addHole } from '../../shared/room-doc/edits.ts'
-import { starterFrame, STARTERS } from '../../shared/room-doc/starters.ts'
-import type { Frame } from '../../shared/types.ts'
+import { readRawFrame, writeFrame, loopsOf } from '../../shared/room-doc/schema'
+import { deletePoint, insertPointAfter, movePoint, setEdge, addHole } from '../../shared/room-doc/edits'
+import { starterFrame, STARTERS } from '../../shared/room-doc/starters'
+import type { Frame } from '../../shared/types'
 
 /** Two replicas exchanging every update, as the sync endpoint does. */
 function pair(): [Y.Doc, Y.Doc] {
