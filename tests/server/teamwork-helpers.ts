@@ -8,7 +8,8 @@ import { loadMailConfig } from '../../server/mail/mail-config.js'
 import { dbMailbox } from '../../server/mail/mailbox.js'
 import type { Running } from '../../server/main.js'
 import { teamworkRoutes } from '../../server/modules/invites/teamwork-routes.js'
-import type { RoomLive } from '../../server/modules/snapshots/room-live.js'
+import type { LatestSurface, RoomLive } from '../../server/modules/snapshots/room-live.js'
+import type { Frame, SurfaceResult } from '../../shared/types.js'
 import { ApiClient, startTestServer } from '../helpers/test-server.js'
 
 /** Records what the team-work routes ask of the live room, and forwards to the real one if any. */
@@ -116,4 +117,34 @@ export async function mailTo(client: ApiClient, to: string, seen = new Set<strin
     await new Promise((r) => setTimeout(r, 100))
   }
   throw new Error(`no new mail to ${to}`)
+}
+
+/**
+ * Stands in for server/realtime in these API tests: one room frame with a version counter, solved
+ * by the real engine (shared/engine.ts solveFrame) on demand, handed out as the live room does
+ * (float32 vertices, uint32 triangles).
+ */
+export function engineLive(solve: (frame: Frame) => SurfaceResult) {
+  let frame: Frame | null = null
+  let version = 0
+  let surface: LatestSurface | null = null
+  let settledVersion = -1
+  return {
+    setFrame(next: Frame | null, { settle = true } = {}) {
+      frame = next
+      version += 1
+      if (settle) settledVersion = version
+    },
+    live: {
+      getRoomFrame: async () => ({ frame, version }),
+      getLatestSurface: async () => {
+        if (!frame || settledVersion < 0) return null
+        if (!surface || surface.version !== settledVersion) {
+          const r = solve(frame)
+          surface = { version: settledVersion, vertices: Float32Array.from(r.vertices.flat()), triangles: Uint32Array.from(r.triangles.flat()), figures: r.figures, solver: r.solver }
+        }
+        return surface
+      },
+    } satisfies Partial<RoomLive>,
+  }
 }
