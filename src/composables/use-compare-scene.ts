@@ -48,8 +48,11 @@ function buildMesh(s: SceneSurface): THREE.Mesh {
   return new THREE.Mesh(geometry, material)
 }
 
-/** Creates the stage in `host` once mounted; disposes it on unmount. `label` names the canvas for tests. */
-export function useSurfaceScene(host: Ref<HTMLElement | null>, label = 'surface-view') {
+/**
+ * Creates the stage in `host` once mounted; disposes it on unmount. `label` names the canvas for
+ * tests; `plan` looks straight down instead of from the side.
+ */
+export function useSurfaceScene(host: Ref<HTMLElement | null>, label = 'surface-view', plan = false) {
   const stage = shallowRef<SurfaceStage | null>(null)
   let teardown = (): void => {}
 
@@ -109,7 +112,10 @@ export function useSurfaceScene(host: Ref<HTMLElement | null>, label = 'surface-
       if (!box.isEmpty()) {
         const c = box.getCenter(new THREE.Vector3())
         const size = Math.max(box.max.x - box.min.x, box.max.y - box.min.y, box.max.z - box.min.z, 1)
-        camera.position.set(c.x - 0.9 * size, c.y - 1.3 * size, c.z + 0.9 * size)
+        // Plan: straight down with north up (a slope map reads like a drawing); else a three-quarter view.
+        if (plan) camera.up.set(0, 1, 0)
+        if (plan) camera.position.set(c.x, c.y, c.z + 1.6 * size)
+        else camera.position.set(c.x - 0.9 * size, c.y - 1.3 * size, c.z + 0.9 * size)
         controls.target.copy(c)
         controls.update()
       }
