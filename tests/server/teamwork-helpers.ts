@@ -10,6 +10,7 @@ import type { Running } from '../../server/main.js'
 import { teamworkRoutes } from '../../server/modules/invites/teamwork-routes.js'
 import type { LatestSurface, RoomLive } from '../../server/modules/snapshots/room-live.js'
 import type { Frame, SurfaceResult } from '../../shared/types.js'
+import { SESSION_COOKIE } from '../../server/session.js'
 import { ApiClient, startTestServer } from '../helpers/test-server.js'
 
 /** Records what the team-work routes ask of the live room, and forwards to the real one if any. */
@@ -147,4 +148,25 @@ export function engineLive(solve: (frame: Frame) => SurfaceResult) {
       },
     } satisfies Partial<RoomLive>,
   }
+}
+
+/** A multipart request as the signed-in client (its session cookie and CSRF token). */
+export async function sendForm(client: ApiClient, method: 'POST' | 'PUT', path: string, form: FormData) {
+  const token = (await client.get<{ token: string }>('/api/auth/csrf')).body.token
+  const cookie = `${SESSION_COOKIE}=${client.cookie(SESSION_COOKIE) ?? ''}`
+  const res = await fetch(client.baseUrl + path, { method, body: form, headers: { cookie, 'x-csrf-token': token } })
+  const text = await res.text()
+  let body: any = null
+  try {
+    body = text ? JSON.parse(text) : null
+  } catch {
+    body = text
+  }
+  return { status: res.status, body, headers: res.headers }
+}
+
+/** A GET whose body is a file (text or bytes), with the response headers. */
+export async function download(client: ApiClient, path: string) {
+  const res = await fetch(client.baseUrl + path, { headers: { cookie: `${SESSION_COOKIE}=${client.cookie(SESSION_COOKIE) ?? ''}` } })
+  return { status: res.status, bytes: Buffer.from(await res.arrayBuffer()), headers: res.headers }
 }
