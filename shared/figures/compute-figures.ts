@@ -74,7 +74,7 @@ export function computeFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Fra
   }
   const flatThreshold = options.flatThreshold ?? DEFAULT_FLAT_THRESHOLD
   const span = Math.max(Math.sqrt(planArea), zMax - zMin, 1e-9)
-  const pockets = pondingPockets(V, buildVertexNeighbours(nV, T, null), isBoundary, vertexPlanAreas, options.minPondingDepth ?? 1e-6 * span)
+  const pockets = pondingPockets(V, buildVertexNeighbours(nV, T), isBoundary, vertexPlanAreas, options.minPondingDepth ?? 1e-6 * span)
   return {
     area,
     planArea,

@@ -5,21 +5,21 @@
  */
 
 /**
- * triangles/halfedges: Delaunator arrays; segmentKeys: min(p,q)·nV + max(p,q) of every boundary
- * segment. Returns the indices of domain triangles.
+ * triangles/halfedges: Delaunator arrays; nextOnLoop[p] = the vertex after p on its loop (−1 for
+ * vertices not on a loop): boundary segments are the pairs (p, nextOnLoop[p]). Returns the indices
+ * of domain triangles.
  */
 export function domainTriangles(
   triangles: Readonly<Uint32Array>,
   halfedges: Readonly<Int32Array>,
-  segmentKeys: ReadonlySet<number>,
-  nV: number,
+  nextOnLoop: Readonly<Int32Array>,
 ): number[] {
   const nT = triangles.length / 3
   const parity = new Int8Array(nT).fill(-1)
   const isSegment = (e: number): boolean => {
     const p = triangles[e]!
     const q = triangles[e % 3 === 2 ? e - 2 : e + 1]!
-    return segmentKeys.has(Math.min(p, q) * nV + Math.max(p, q))
+    return nextOnLoop[p] === q || nextOnLoop[q] === p
   }
   const stack: number[] = []
   for (let e = 0; e < triangles.length; e++) {

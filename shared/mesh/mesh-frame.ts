@@ -49,15 +49,10 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   if (con.untriangulatedPoints().length > 0) {
     throw new MeshError('mesh', 'frame points lie too close together for the target edge length')
   }
-  const segmentKeys = new Set<number>()
-  for (const [p, q] of segments) segmentKeys.add(Math.min(p, q) * nV + Math.max(p, q))
+  const nextOnLoop = new Int32Array(nV).fill(-1)
+  for (const [p, q] of segments) nextOnLoop[p] = q
 
-  const keep = domainTriangles(del.triangles, del.halfedges, segmentKeys, nV)
-  const isInterior = new Uint8Array(nV).fill(1, nB)
-  const neighbours = buildVertexNeighbours(nV, del.triangles, keep)
-  // Smart smoothing only accepts moves that raise the local minimum angle, so no edge flips needed.
-  smoothInterior(coords, neighbours, isInterior, del.triangles, keep, SMOOTHING_SWEEPS)
-
+  const keep = domainTriangles(del.triangles, del.halfedges, nextOnLoop)
   const triangles = new Uint32Array(3 * keep.length)
   keep.forEach((t, k) => {
     const a = del.triangles[3 * t]!
@@ -71,6 +66,11 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
     triangles[3 * k + 1] = bb
     triangles[3 * k + 2] = c
   })
+  const neighbours = buildVertexNeighbours(nV, triangles)
+  // Only the band next to the boundary is irregular; the hexagonal lattice beyond it is already ideal.
+  const isInterior = boundaryBand(nB, neighbours, 2)
+  // Smart smoothing never turns a triangle over, so the orientation above stays valid.
+  smoothInterior(coords, neighbours, isInterior, triangles, SMOOTHING_SWEEPS)
 
   const vertices = new Float64Array(3 * nV)
   for (let v = 0; v < nV; v++) {
@@ -78,7 +78,7 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
     vertices[3 * v + 1] = coords[2 * v + 1]!
     vertices[3 * v + 2] = v < nB ? b.xyz[3 * v + 2]! : 0
   }
-  firstGuessHeights(vertices, nB, frame, buildVertexNeighbours(nV, triangles, null), isInterior)
+  firstGuessHeights(vertices, nB, frame, neighbours)
 
   const vertexLoops = new Int32Array(nV).fill(-1)
   const vertexEdges = new Int32Array(nV).fill(-1)
@@ -100,6 +100,32 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   }
 }
 
+/** Interior vertices (index ≥ nB) within `rings` neighbour rings of a boundary vertex: 1, else 0. */
+function boundaryBand(nB: number, nb: { start: Int32Array; list: Int32Array }, rings: number): Uint8Array {
+  const nV = nb.start.length - 1
+  const depth = new Int32Array(nV).fill(-1)
+  let front: number[] = []
+  for (let v = 0; v < nB; v++) {
+    depth[v] = 0
+    front.push(v)
+  }
+  for (let r = 1; r <= rings; r++) {
+    const next: number[] = []
+    for (const v of front) {
+      for (let k = nb.start[v]!; k < nb.start[v + 1]!; k++) {
+        const w = nb.list[k]!
+        if (depth[w] !== -1) continue
+        depth[w] = r
+        next.push(w)
+      }
+    }
+    front = next
+  }
+  const band = new Uint8Array(nV)
+  for (let v = nB; v < nV; v++) band[v] = depth[v]! > 0 ? 1 : 0
+  return band
+}
+
 /**
  * Interior heights: inverse-distance blend of the frame points (when there are few) relaxed by
  * Laplacian sweeps — only a start, the solver replaces it.
@@ -109,7 +135,6 @@ function firstGuessHeights(
   nB: number,
   frame: Readonly<Frame>,
   nb: { start: Int32Array; list: Int32Array },
-  isInterior: Uint8Array,
 ): void {
   const pts = frame.loops.flatMap((l) => l.points)
   const nV = V.length / 3
@@ -130,7 +155,6 @@ function firstGuessHeights(
   }
   for (let s = 0; s < 6; s++) {
     for (let v = nB; v < nV; v++) {
-      if (!isInterior[v]) continue
       let z = 0
       const a = nb.start[v]!, e = nb.start[v + 1]!
       for (let k = a; k < e; k++) z += V[3 * nb.list[k]! + 2]!
@@ -143,13 +167,21 @@ function firstGuessHeights(
 function planMinAngle(coords: Float64Array, T: Uint32Array): number {
   let m = Math.PI
   for (let t = 0; t < T.length; t += 3) {
+    // The smallest angle is opposite the shortest edge: one atan2 per triangle.
+    let best = -1, shortest = Infinity
     for (let k = 0; k < 3; k++) {
-      const p = 2 * T[t + k]!, q = 2 * T[t + ((k + 1) % 3)]!, r = 2 * T[t + ((k + 2) % 3)]!
-      const ux = coords[q]! - coords[p]!, uy = coords[q + 1]! - coords[p + 1]!
-      const vx = coords[r]! - coords[p]!, vy = coords[r + 1]! - coords[p + 1]!
-      const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
-      if (ang < m) m = ang
+      const q = 2 * T[t + ((k + 1) % 3)]!, r = 2 * T[t + ((k + 2) % 3)]!
+      const l2 = (coords[r]! - coords[q]!) ** 2 + (coords[r + 1]! - coords[q + 1]!) ** 2
+      if (l2 < shortest) {
+        shortest = l2
+        best = k
+      }
     }
+    const p = 2 * T[t + best]!, q = 2 * T[t + ((best + 1) % 3)]!, r = 2 * T[t + ((best + 2) % 3)]!
+    const ux = coords[q]! - coords[p]!, uy = coords[q + 1]! - coords[p + 1]!
+    const vx = coords[r]! - coords[p]!, vy = coords[r + 1]! - coords[p + 1]!
+    const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
+    if (ang < m) m = ang
   }
   return (m * 180) / Math.PI
 }

@@ -81,7 +81,7 @@ function moveInterior(V0: Float64Array, V: Float64Array, isBoundary: Uint8Array,
     D[3 * v + 1] = dy / sw
     D[3 * v + 2] = dz / sw
   }
-  const nb = buildVertexNeighbours(nV, T, null)
+  const nb = buildVertexNeighbours(nV, T)
   for (let s = 0; s < RELAX_SWEEPS; s++) {
     for (let v = 0; v < nV; v++) {
       if (isBoundary[v]) continue

@@ -1,5 +1,4 @@
 /** Vertex adjacency and Laplacian smoothing of interior plan vertices. */
-import { orient } from './plan-geometry'
 
 /** CSR vertex neighbour lists (with repeats: an interior edge appears once per adjacent face). */
 export interface VertexNeighbours {
@@ -7,32 +6,31 @@ export interface VertexNeighbours {
   list: Int32Array
 }
 
-/** Neighbours of each vertex over the triangles `keep` (indices into T, #T×3), or all when null. */
-export function buildVertexNeighbours(nV: number, T: Readonly<Uint32Array>, keep: readonly number[] | null): VertexNeighbours {
-  const tris = keep ?? Array.from({ length: T.length / 3 }, (_, i) => i)
+/** Neighbours of each vertex over the triangles T (#T×3). */
+export function buildVertexNeighbours(nV: number, T: Readonly<Uint32Array>): VertexNeighbours {
   const start = new Int32Array(nV + 1)
-  for (const t of tris) for (let k = 0; k < 3; k++) start[T[3 * t + k]! + 1]! += 2
+  for (let i = 0; i < T.length; i++) start[T[i]! + 1]! += 2
   for (let v = 0; v < nV; v++) start[v + 1]! += start[v]!
   const fill = start.slice(0, nV)
   const list = new Int32Array(start[nV]!)
-  for (const t of tris) {
+  for (let t = 0; t < T.length; t += 3) {
     for (let k = 0; k < 3; k++) {
-      const v = T[3 * t + k]!
-      list[fill[v]!++] = T[3 * t + ((k + 1) % 3)]!
-      list[fill[v]!++] = T[3 * t + ((k + 2) % 3)]!
+      const v = T[t + k]!
+      list[fill[v]!++] = T[t + ((k + 1) % 3)]!
+      list[fill[v]!++] = T[t + ((k + 2) % 3)]!
     }
   }
   return { start, list }
 }
 
-/** Vertex → incident triangle lists (CSR) over the triangles `keep`. */
-function buildVertexFaces(nV: number, T: Readonly<Uint32Array>, keep: readonly number[]): VertexNeighbours {
+/** Vertex → incident triangle lists (CSR), only for vertices marked in `which`. */
+function buildVertexFaces(nV: number, T: Readonly<Uint32Array>, which: Readonly<Uint8Array>): VertexNeighbours {
   const start = new Int32Array(nV + 1)
-  for (const t of keep) for (let k = 0; k < 3; k++) start[T[3 * t + k]! + 1]!++
+  for (let i = 0; i < T.length; i++) if (which[T[i]!]) start[T[i]! + 1]!++
   for (let v = 0; v < nV; v++) start[v + 1]! += start[v]!
   const fill = start.slice(0, nV)
   const list = new Int32Array(start[nV]!)
-  for (const t of keep) for (let k = 0; k < 3; k++) list[fill[T[3 * t + k]!]!++] = t
+  for (let i = 0; i < T.length; i++) if (which[T[i]!]) list[fill[T[i]!]!++] = (i / 3) | 0
   return { start, list }
 }
 
@@ -55,29 +53,18 @@ function planTriangleMinAngle(coords: Readonly<Float64Array>, T: Readonly<Uint32
  * "Smart" Laplacian sweeps of interior plan vertices (coords: #V×2, m): a vertex moves to the mean
  * of its neighbours only when that raises the smallest angle of its incident triangles, so the
  * sweeps never turn a triangle over and never lower the mesh's minimum angle. Vertices whose star
- * is already well shaped (the hexagonal lattice, angles ≥ 50°) are skipped for speed.
- * T: Delaunator triangles whose orientation may be either sign (handled per triangle).
+ * is already well shaped (angles ≥ 50°) are skipped. T: #T×3, counter-clockwise in plan.
  */
 export function smoothInterior(
   coords: Float64Array,
   nb: Readonly<VertexNeighbours>,
   isInterior: Readonly<Uint8Array>,
   T: Readonly<Uint32Array>,
-  keep: readonly number[],
   sweeps: number,
 ): void {
   const nV = coords.length / 2
-  const faces = buildVertexFaces(nV, T, keep)
-  // Make every kept triangle counter-clockwise once so the angle score can detect turning over.
-  const Tc = Uint32Array.from(T)
-  for (const t of keep) {
-    const a = 2 * Tc[3 * t]!, b = 2 * Tc[3 * t + 1]!, c = 2 * Tc[3 * t + 2]!
-    if (orient(coords[a]!, coords[a + 1]!, coords[b]!, coords[b + 1]!, coords[c]!, coords[c + 1]!) < 0) {
-      const s = Tc[3 * t + 1]!
-      Tc[3 * t + 1] = Tc[3 * t + 2]!
-      Tc[3 * t + 2] = s
-    }
-  }
+  const faces = buildVertexFaces(nV, T, isInterior)
+  const Tc = T
   const starMin = (v: number): number => {
     let m = Math.PI
     for (let k = faces.start[v]!; k < faces.start[v + 1]!; k++) m = Math.min(m, planTriangleMinAngle(coords, Tc, faces.list[k]!))
