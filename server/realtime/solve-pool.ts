@@ -70,6 +70,11 @@ export class SolvePool {
     return { done, cancel }
   }
 
+  /** Starts every worker now, so the first edit does not wait for a worker to boot. */
+  warmUp(): void {
+    for (let i = 0; i < this.size; i++) if (!this.slots[i] && !this.closed) this.spawn(i)
+  }
+
   /** Drops a room's warm state (its document was freed). */
   forget(roomId: string): void {
     const index = this.home.get(roomId)

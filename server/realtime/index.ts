@@ -1,0 +1,79 @@
+/**
+ * The live room on one http server: the CRDT endpoint (/sync/<roomId>), the surface stream
+ * (socket.io) and the solve loop with its worker pool, sharing one map of room documents.
+ */
+import type { AddressInfo } from 'node:net'
+import type { Server } from 'node:http'
+import type { RequestHandler } from 'express'
+import type { DataSource } from 'typeorm'
+import type { StarterKey } from '../../shared/room-doc/starters.js'
+import type { Config } from '../config.js'
+import { allowedOrigins } from './access.js'
+import { RoomDocs, type RoomDocsOptions } from './room-docs.js'
+import { createSolveLoop, type SolveLoop } from './solve-loop.js'
+import { SolvePool } from './solve-pool.js'
+import { attachSurfaceStream, type SurfaceStream } from './surface-stream.js'
+import { attachSyncEndpoint } from './sync-endpoint.js'
+
+export interface RealtimeDeps {
+  sessionMiddleware: RequestHandler
+  /** passport's session middleware (req.user from the session). */
+  passportSession: RequestHandler
+  dataSource: DataSource
+  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV' | 'HOST'> & { SOLVE_WORKERS?: number }
+  /** Overrides for tests and the benchmark. */
+  tuning?: RoomDocsOptions & { workers?: number; staleMs?: number; coarseAbove?: number }
+}
+
+export interface Realtime {
+  rooms: RoomDocs
+  loop: SolveLoop
+  /** Gives a room its starting frame if its document is empty (room creation, demo seed). */
+  ensureRoomFrame: (roomId: string, starterKey: StarterKey) => Promise<boolean>
+  /** Closes sockets, stops the workers and stores every loaded room. */
+  close: () => Promise<void>
+}
+
+export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime {
+  const { config, tuning = {} } = deps
+  const access = { sessionMiddleware: deps.sessionMiddleware, passportSession: deps.passportSession, dataSource: deps.dataSource }
+  const base = allowedOrigins(config.PUBLIC_URL, config.NODE_ENV)
+  // The address we actually listen on (port 0 in tests) is an allowed origin too.
+  const origins = () => {
+    const address = httpServer.address() as AddressInfo | null
+    if (!address) return base
+    const own = new Set(base)
+    own.add(`http://${config.HOST}:${address.port}`)
+    if (config.HOST === '127.0.0.1') own.add(`http://localhost:${address.port}`)
+    return own
+  }
+
+  const rooms = new RoomDocs(deps.dataSource, tuning)
+  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
+  pool.warmUp()
+  // The loop emits through the stream, and the stream asks the loop for the latest surface.
+  const ref: { stream?: SurfaceStream } = {}
+  const loop = createSolveLoop({
+    rooms,
+    pool,
+    emit: (roomId, event, payload) => ref.stream?.emit(roomId, event, payload),
+    staleMs: tuning.staleMs,
+    coarseAbove: tuning.coarseAbove,
+  })
+  const stream = attachSurfaceStream(httpServer, { rooms, access, origins, latest: loop.latest })
+  ref.stream = stream
+  const sync = attachSyncEndpoint(httpServer, { rooms, access, origins })
+
+  return {
+    rooms,
+    loop,
+    ensureRoomFrame: (roomId, starterKey) => rooms.ensureRoomFrame(roomId, starterKey),
+    close: async () => {
+      await sync.close()
+      await stream.close()
+      loop.close()
+      await pool.close()
+      await rooms.close()
+    },
+  }
+}

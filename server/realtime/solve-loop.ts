@@ -1,0 +1,185 @@
+/**
+ * Solves every loaded room after each change of its document and streams the result. A change
+ * reads and validates the frame (an invalid one is reported 'unsettled'/'invalid-frame', never
+ * solved), then replaces the running solve: a solve younger than `staleMs` is allowed to finish
+ * first (otherwise a continuous drag would cancel every solve and nobody would see a surface), an
+ * older one is cancelled. A large frame without warm state gets a coarse preview first.
+ */
+import * as Y from 'yjs'
+import { readRawFrame } from '../../shared/room-doc/schema.js'
+import type { Frame } from '../../shared/types.js'
+import { logger } from '../lib/logger.js'
+import { validateRoomFrame } from './engine-link.js'
+import type { LiveRoom, RoomDocs } from './room-docs.js'
+import type { SolveHandle, SolvePool } from './solve-pool.js'
+
+/** Vertex count a coarse preview aims at. */
+const COARSE_VERTICES = 2000
+/**
+ * Plan area per vertex of an equilateral lattice of side h is (√3/2) h² ≈ 0.866 h² (each vertex
+ * carries two triangles of √3/4 h²); the mesher's interior lattice is of this kind.
+ */
+const LATTICE = Math.sqrt(3) / 2
+
+type Emit = (roomId: string, event: string, payload: unknown) => void
+
+interface Watch {
+  room: LiveRoom
+  running: { handle: SolveHandle; startedAt: number } | null
+  dirty: boolean
+  scheduled: boolean
+  /** Structure of the last fine solve: the worker can warm-start only a frame of the same one. */
+  warmKey: string | null
+  surface?: unknown
+  state?: unknown
+  onUpdate: () => void
+}
+
+export interface SolveLoop {
+  /** What a client joining the room is sent first: the last surface and solve state. */
+  latest: (roomId: string) => { event: string; payload: unknown }[]
+  close: () => void
+}
+
+/** Plan area of the outer loop minus its holes, m² (shoelace). */
+export function planArea(frame: Readonly<Frame>): number {
+  let total = 0
+  for (const loop of frame.loops) {
+    let twice = 0
+    const n = loop.points.length
+    for (let i = 0; i < n; i++) {
+      const a = loop.points[i]!
+      const b = loop.points[(i + 1) % n]!
+      twice += a.x * b.y - b.x * a.y
+    }
+    total += (loop.role === 'outer' ? 1 : -1) * Math.abs(twice / 2)
+  }
+  return Math.max(total, 0)
+}
+
+/** What decides the mesh connectivity: element size, loops, their point counts and edge kinds. */
+export const structureOf = (frame: Readonly<Frame>): string =>
+  JSON.stringify([frame.mesh.edgeLength, frame.loops.map((l) => [l.role, l.points.length, l.edges.map((e) => e.kind)])])
+
+/** Estimated vertex count of the frame's mesh. */
+export const estimatedVertices = (frame: Readonly<Frame>): number => planArea(frame) / (LATTICE * frame.mesh.edgeLength ** 2)
+
+export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: Emit; staleMs?: number; coarseAbove?: number }): SolveLoop {
+  const { rooms, pool, emit } = opts
+  const staleMs = opts.staleMs ?? 250
+  const coarseAbove = opts.coarseAbove ?? 3 * COARSE_VERTICES
+  const watches = new Map<string, Watch>()
+
+  const send = (w: Watch, event: 'surface' | 'solve:state' | 'solve:progress', payload: Record<string, unknown>) => {
+    const full = { roomId: w.room.roomId, ...payload }
+    if (event === 'surface') w.surface = full
+    if (event === 'solve:state') w.state = full
+    emit(w.room.roomId, event, full)
+  }
+
+  const schedule = (w: Watch) => {
+    if (w.scheduled) return
+    w.scheduled = true
+    // Several updates in one tick (a sync step 2, a burst of moves) make one solve.
+    setImmediate(() => {
+      w.scheduled = false
+      if (watches.get(w.room.roomId) === w) kick(w)
+    })
+  }
+
+  const kick = (w: Watch) => {
+    const raw = readRawFrame(w.room.doc)
+    if (raw === null) return
+    const version = w.room.version
+    const stateVector = Y.encodeStateVector(w.room.doc)
+    const checked = validateRoomFrame(raw)
+    if (!checked.ok) {
+      w.running?.handle.cancel()
+      send(w, 'solve:state', { version, state: 'unsettled', reason: 'invalid-frame', message: checked.message, field: checked.field })
+      return
+    }
+    if (w.running) {
+      if (performance.now() - w.running.startedAt < staleMs) {
+        w.dirty = true
+        return
+      }
+      w.running.handle.cancel()
+    }
+    void run(w, checked.frame, version, stateVector)
+  }
+
+  const solveOnce = async (w: Watch, frame: Frame, version: number, stateVector: Uint8Array, coarse: boolean): Promise<boolean> => {
+    const handle = pool.solve(w.room.roomId, frame, {
+      coarse,
+      onProgress: (iteration, residual) => send(w, 'solve:progress', { version, iteration, residual }),
+    })
+    w.running = { handle, startedAt: performance.now() }
+    const outcome = await handle.done
+    if (w.running?.handle === handle) w.running = null
+    if (outcome.kind === 'cancelled') return false
+    if (outcome.kind === 'failed') {
+      logger.warn('realtime: solve failed', { roomId: w.room.roomId, message: outcome.message })
+      send(w, 'solve:state', { version, state: 'unsettled', reason: 'solver-error', message: outcome.message })
+      return false
+    }
+    const { kind: _k, ...surface } = outcome
+    send(w, 'surface', { version, stateVector, coarse, ...surface })
+    if (!coarse) {
+      w.warmKey = structureOf(frame)
+      const { converged, reason } = surface.solver
+      send(w, 'solve:state', converged ? { version, state: 'settled' } : { version, state: 'unsettled', reason: reason ?? 'not-converged' })
+    }
+    return true
+  }
+
+  const run = async (w: Watch, frame: Frame, version: number, stateVector: Uint8Array) => {
+    send(w, 'solve:state', { version, state: 'settling' })
+    try {
+      if (w.warmKey !== structureOf(frame) && estimatedVertices(frame) > coarseAbove) {
+        const edgeLength = Math.sqrt(planArea(frame) / (LATTICE * COARSE_VERTICES))
+        const previewed = await solveOnce(w, { ...frame, mesh: { edgeLength } }, version, stateVector, true)
+        if (!previewed && w.running) return
+      }
+      if (!w.dirty) await solveOnce(w, frame, version, stateVector, false)
+    } catch (err) {
+      logger.error('realtime: solve loop step failed', { roomId: w.room.roomId, err: String(err) })
+    }
+    if (w.dirty && !w.running && watches.get(w.room.roomId) === w) {
+      w.dirty = false
+      kick(w)
+    }
+  }
+
+  const onLoaded = (room: LiveRoom) => {
+    const w: Watch = { room, running: null, dirty: false, scheduled: false, warmKey: null, onUpdate: () => schedule(w) }
+    watches.set(room.roomId, w)
+    room.doc.on('update', w.onUpdate)
+    schedule(w)
+  }
+  const onFreed = (room: LiveRoom) => {
+    const w = watches.get(room.roomId)
+    if (!w || w.room !== room) return
+    watches.delete(room.roomId)
+    room.doc.off('update', w.onUpdate)
+    w.running?.handle.cancel()
+    pool.forget(room.roomId)
+  }
+  rooms.on('loaded', onLoaded)
+  rooms.on('freed', onFreed)
+
+  return {
+    latest: (roomId) => {
+      const w = watches.get(roomId)
+      const out: { event: string; payload: unknown }[] = []
+      if (w?.surface) out.push({ event: 'surface', payload: w.surface })
+      if (w?.state) out.push({ event: 'solve:state', payload: w.state })
+      return out
+    },
+    close: () => {
+      rooms.off('loaded', onLoaded)
+      rooms.off('freed', onFreed)
+      for (const w of watches.values()) w.running?.handle.cancel()
+      watches.clear()
+    },
+  }
+}

@@ -1,0 +1,76 @@
+/**
+ * A solve worker: keeps one stateful form finder per room it is home to (warm starts), turns the
+ * pool's shared cancel flag into `signal.aborted`, throttles progress to ≤ 10 messages a second and
+ * sends the surface back with its typed arrays transferred.
+ */
+import { parentPort } from 'node:worker_threads'
+import { starterFrame } from '../../shared/room-doc/starters.js'
+import { computeFigures, createFormFinder, type FormFinder } from './engine-link.js'
+import type { FromWorker, SolveJobMessage, ToWorker } from './solve-messages.js'
+
+const PROGRESS_EVERY_MS = 100
+/** Rooms whose warm state a worker keeps; the oldest is dropped beyond this. */
+const MAX_WARM = 8
+
+const port = parentPort
+if (!port) throw new Error('solve-worker.ts must run in a worker thread')
+
+const finders = new Map<string, FormFinder>()
+
+function finderFor(key: string): FormFinder {
+  let finder = finders.get(key)
+  if (finder) finders.delete(key)
+  else finder = createFormFinder()
+  finders.set(key, finder)
+  while (finders.size > MAX_WARM) finders.delete(finders.keys().next().value as string)
+  return finder
+}
+
+async function solve(job: SolveJobMessage): Promise<void> {
+  const flag = new Int32Array(job.cancel)
+  const signal = {
+    get aborted() {
+      return Atomics.load(flag, 0) !== 0
+    },
+  }
+  let lastProgress = 0
+  const onProgress = (iteration: number, residual: number) => {
+    const t = performance.now()
+    if (t - lastProgress < PROGRESS_EVERY_MS) return
+    lastProgress = t
+    post({ type: 'progress', jobId: job.jobId, iteration, residual })
+  }
+  try {
+    const finder = finderFor(job.coarse ? `${job.roomId}:coarse` : job.roomId)
+    const { mesh, report } = await finder.solve(job.frame, { onProgress, signal })
+    const figures = computeFigures(mesh, job.frame, { residual: report.residual })
+    const vertices = Float32Array.from(mesh.vertices)
+    const triangles = Uint32Array.from(mesh.triangles)
+    port!.postMessage({ type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report } satisfies FromWorker, [
+      vertices.buffer,
+      triangles.buffer,
+    ])
+  } catch (err) {
+    post({ type: 'failed', jobId: job.jobId, message: err instanceof Error ? err.message : String(err) })
+  }
+}
+
+function post(m: FromWorker): void {
+  port!.postMessage(m)
+}
+
+// A small solve at boot compiles the engine's hot paths before the first real job arrives.
+try {
+  const warm = starterFrame('blank')
+  computeFigures(createFormFinder().solve(warm).mesh, warm)
+} catch {
+  // A failing warm-up is not fatal: the real job reports its own error.
+}
+
+// Jobs run one at a time: the pool never sends a second before the first has answered.
+port.on('message', (m: ToWorker) => {
+  if (m.type === 'forget') {
+    finders.delete(m.roomId)
+    finders.delete(`${m.roomId}:coarse`)
+  } else void solve(m)
+})

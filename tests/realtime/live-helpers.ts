@@ -1,0 +1,138 @@
+/**
+ * Helpers for the live-room tests and benchmark: the real server on port 0 against the test
+ * database (tests/helpers/test-server.ts, as scripts/test.mjs sets it up), users and rooms inserted
+ * directly, sign-in over HTTP for a real session cookie, and real clients: y-websocket's
+ * WebsocketProvider (with `ws` as its WebSocket) and socket.io-client.
+ */
+import { randomUUID } from 'node:crypto'
+import bcrypt from 'bcryptjs'
+import { io as ioClient, type Socket } from 'socket.io-client'
+import type { DataSource } from 'typeorm'
+import WebSocket from 'ws'
+import { WebsocketProvider } from 'y-websocket'
+import * as Y from 'yjs'
+import { MembershipEntity, RoomEntity, UserEntity, type RoomRole } from '../../server/db/entities/index.js'
+import type { Running } from '../../server/main.js'
+import { attachRealtime, type Realtime, type RealtimeDeps } from '../../server/realtime/index.js'
+import { startTestServer } from '../helpers/test-server.js'
+
+export interface Live {
+  running: Running
+  realtime: Realtime
+  url: string
+  stop: () => Promise<void>
+}
+
+/** Starts the app with the live room attached (by start() itself once wired, else here). */
+export async function startLive(tuning: RealtimeDeps['tuning'] = {}): Promise<Live> {
+  const running = await startTestServer()
+  const config = running.config
+  const wired = (running as Running & { realtime?: Realtime }).realtime
+  const realtime =
+    wired ??
+    attachRealtime(running.server, {
+      sessionMiddleware: running.sessionMiddleware,
+      passportSession: running.passportSession,
+      dataSource: running.dataSource,
+      config,
+      tuning,
+    })
+  return {
+    running,
+    realtime,
+    url: running.url,
+    stop: async () => {
+      if (!wired) await realtime.close()
+      await running.stop()
+    },
+  }
+}
+
+const PASSWORD = 'live-room-test-password'
+
+/** Inserts a user (bcrypt cost 4: these tests are about sockets, not password storage). */
+export async function makeUser(ds: DataSource, name: string): Promise<{ id: string; email: string }> {
+  const id = randomUUID()
+  const email = `${name.toLowerCase()}-${id.slice(0, 8)}@live.veilroom.test`
+  await ds.getRepository(UserEntity).insert({ id, email, name, passwordHash: await bcrypt.hash(PASSWORD, 4) })
+  return { id, email }
+}
+
+/** Inserts a room with the given members. */
+export async function makeRoom(ds: DataSource, members: { userId: string; role: RoomRole }[]): Promise<string> {
+  const id = randomUUID()
+  await ds.getRepository(RoomEntity).insert({ id, name: `Live test ${id.slice(0, 8)}`, description: '' })
+  for (const m of members) await ds.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId: id, userId: m.userId, role: m.role })
+  return id
+}
+
+/** Signs in over HTTP and returns the session cookie ("name=value"). */
+export async function signIn(url: string, email: string): Promise<string> {
+  const csrf = await fetch(`${url}/api/auth/csrf`)
+  const first = cookieOf(csrf)
+  const { token } = (await csrf.json()) as { token: string }
+  const res = await fetch(`${url}/api/auth/signin`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: first },
+    body: JSON.stringify({ email, password: PASSWORD }),
+  })
+  if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`)
+  return cookieOf(res) || first
+}
+
+function cookieOf(res: Response): string {
+  const set = res.headers.getSetCookie()[0]
+  return set ? set.split(';')[0]! : ''
+}
+
+/** A WebSocket class for y-websocket that sends our cookie and Origin. */
+export function cookieSocket(cookie: string, origin: string): new (address: string | URL, protocols?: string | string[]) => WebSocket {
+  return class extends WebSocket {
+    constructor(address: string | URL, protocols?: string | string[]) {
+      super(address, protocols, { headers: { cookie, origin } })
+    }
+  }
+}
+
+export interface DocClient {
+  doc: Y.Doc
+  provider: WebsocketProvider
+  synced: Promise<void>
+  destroy: () => void
+}
+
+/** A y-websocket client of a room; `synced` resolves after the server's sync step 2. */
+export function connectDoc(url: string, roomId: string, cookie: string): DocClient {
+  const doc = new Y.Doc()
+  const provider = new WebsocketProvider(url.replace(/^http/, 'ws') + '/sync', roomId, doc, {
+    WebSocketPolyfill: cookieSocket(cookie, url) as unknown as typeof globalThis.WebSocket,
+    disableBc: true,
+  })
+  const synced = new Promise<void>((resolve) => {
+    if (provider.synced) resolve()
+    else provider.once('sync', () => resolve())
+  })
+  return {
+    doc,
+    provider,
+    synced,
+    destroy: () => {
+      provider.destroy()
+      doc.destroy()
+    },
+  }
+}
+
+/** A socket.io client of the surface stream, signed in through the cookie. */
+export function connectStream(url: string, cookie: string): Socket {
+  return ioClient(url, { transports: ['websocket'], extraHeaders: { cookie, origin: url }, forceNew: true, reconnection: false })
+}
+
+/** Polls `check` until it is true (or fails after `ms`). */
+export async function until(check: () => boolean, ms = 10_000, what = 'condition'): Promise<void> {
+  const end = Date.now() + ms
+  while (!check()) {
+    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`)
+    await new Promise((r) => setTimeout(r, 10))
+  }
+}
