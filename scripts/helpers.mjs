@@ -45,8 +45,20 @@ export const hasClientSources = () =>
  */
 export function startServerChild(env, extraArgs = []) {
   return new Promise((resolvePromise, reject) => {
-    const child = spawn(bin('tsx'), ['server/main.ts', ...extraArgs], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] })
+    // The URL line is logged at info level; quieter levels would hide it from us.
+    const level = env.LOG_LEVEL === 'debug' ? 'debug' : 'info'
+    const child = spawn(bin('tsx'), ['server/main.ts', ...extraArgs], {
+      cwd: root,
+      env: { ...env, LOG_LEVEL: level },
+      stdio: ['ignore', 'pipe', 'inherit'],
+    })
     let seen = ''
+    const timer = setTimeout(() => {
+      if (seen === null) return
+      seen = null
+      child.kill('SIGTERM')
+      reject(new Error('server did not report "listening on" within 60 s'))
+    }, 60_000)
     child.stdout.on('data', (chunk) => {
       process.stdout.write(chunk)
       if (seen === null) return
@@ -54,10 +66,12 @@ export function startServerChild(env, extraArgs = []) {
       const match = /listening on (http:\/\/\S+)/.exec(seen)
       if (match) {
         seen = null
+        clearTimeout(timer)
         resolvePromise({ child, url: match[1] })
       }
     })
     child.on('exit', (code) => {
+      clearTimeout(timer)
       if (seen !== null) reject(new Error(`server exited with code ${code} before listening`))
     })
   })

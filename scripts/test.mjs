@@ -1,12 +1,15 @@
 // `npm test`: typecheck, lint, then every vitest suite against a throwaway MariaDB database, then
 // the browser tests against a running server. All stages run; the exit code is the first failure.
-// `npm test -- <vitest filters…>` runs only the matching vitest files (no typecheck, lint, browser).
+// `npm test -- <vitest filters…>` runs only the matching vitest files (no typecheck, lint, browser);
+// `npm test -- --browser` only the browser tests.
 import { existsSync, readdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
 import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild } from './helpers.mjs'
 
-const filters = process.argv.slice(2)
+// `npm test -- --browser` runs only the browser tests (with the database and server they need).
+const browserOnly = process.argv.includes('--browser')
+const filters = process.argv.slice(2).filter((a) => a !== '--browser')
 const results = []
 async function stage(name, fn) {
   const t0 = Date.now()
@@ -24,7 +27,7 @@ async function stage(name, fn) {
 
 if (!existsSync(resolve(root, 'node_modules'))) await run('npm', ['ci'])
 
-if (!filters.length) {
+if (!filters.length && !browserOnly) {
   if (hasClientSources()) await stage('typecheck client (vue-tsc --build)', () => run('vue-tsc', ['--build', '--force']))
   await stage('typecheck server (tsc -p tsconfig.server.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.server.json']))
   await stage('lint (eslint)', () => run('eslint', ['.']))
@@ -50,7 +53,7 @@ let server = null
 try {
   const migrated = await stage('migrate + demo seed (test database)', () => run('tsx', ['scripts/migrate.ts', '--seed'], { env }))
   if (migrated === 0) {
-    await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
+    if (!browserOnly) await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
     const browserDir = resolve(root, 'tests/browser')
     const e2e = existsSync(browserDir) ? readdirSync(browserDir).filter((f) => f.endsWith('.e2e.ts')) : []
     if (!filters.length && e2e.length) {
