@@ -123,6 +123,8 @@ export async function startDb(options = {}) {
     const child = spawn(await findBinary('mariadbd'), [
       '--no-defaults', `--datadir=${dataDir}`, `--socket=${socketPath(port)}`, `--port=${port}`,
       '--bind-address=127.0.0.1', '--user=root', `--pid-file=${pidPath(dataDir)}`,
+      // The app reads and writes DATETIME as UTC (mysql2 timezone 'Z'); column defaults must agree.
+      '--default-time-zone=+00:00',
       `--log-error=${resolve(dataDir, 'error.log')}`,
     ], { detached: true, stdio: 'ignore' })
     child.unref()
