@@ -67,7 +67,8 @@ export function meshParametric(frame: Readonly<Frame>): ParametricMesh {
   const slotVertex = (k: number, i: number): number => k * n + (k === rings - 1 ? match(i) : i)
   for (let k = 0; k < rings; k++) {
     const s = k / (rings - 1)
-    const r = 1 - s * (1 - rho)
+    // geometric radii: equal steps in ln r match equal steps in angle (a conformal grid)
+    const r = rho ** s
     for (let i = 0; i < n; i++) {
       const v = slotVertex(k, i)
       const a = outer[i]!, c = hole[match(i)]!
