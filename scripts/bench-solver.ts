@@ -23,11 +23,20 @@ function frame(edgeLength: number, lift = 0): Frame {
   }
 }
 
+/** A fixed loop of 1e8 multiply-adds: its time says how busy the machine is (≈100 ms when idle). */
+function calibrationMs(): number {
+  const a = new Float64Array(1e6)
+  const t = performance.now()
+  for (let r = 0; r < 100; r++) for (let i = 0; i < a.length; i++) a[i] += i * 0.5
+  return performance.now() - t
+}
+
 const rssMb = (): number => process.memoryUsage().rss / 2 ** 20
 const rows: Record<string, number | string | boolean>[] = []
 const targets = [1000, 2000, 5000, 20000, 80000]
 const runs = Number(process.env.BENCH_RUNS ?? 3)
 
+const calibrationBefore = calibrationMs()
 for (const target of targets) {
   // a plan lattice of spacing h holds about area / (0.866 h²) vertices
   const h = Math.sqrt((SPAN * SPAN) / (0.866 * target))
@@ -71,10 +80,12 @@ function round(x: number): number {
   return Math.round(x * 10) / 10
 }
 
+const calibrationAfter = calibrationMs()
 console.table(rows)
 const load = loadavg()
+console.log(`calibration loop ${round(calibrationBefore)} ms before, ${round(calibrationAfter)} ms after (≈100 ms on an idle core)`)
 console.log(`best of ${runs} runs per size; load average ${load.map((l) => l.toFixed(1)).join(' ')} (1, 5, 15 min)`)
 console.log('cold/warm ms include meshing/remapping; *SolverMs is the solver alone.')
 mkdirSync('bench-results', { recursive: true })
-writeFileSync('bench-results/solver.json', JSON.stringify({ date: new Date().toISOString(), loadAverage: load, runs, rows }, null, 2))
+writeFileSync('bench-results/solver.json', JSON.stringify({ date: new Date().toISOString(), loadAverage: load, calibrationMs: [calibrationBefore, calibrationAfter], runs, rows }, null, 2))
 console.log('wrote bench-results/solver.json')

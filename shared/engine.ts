@@ -37,8 +37,17 @@ export interface FormFinder {
   reset(): void
 }
 
+/**
+ * Faces steeper than this (|∇u| = tan 75°) send a settled height field on to the spatial path: the
+ * discrete height-field area is convex and always has a minimiser, even where the true membrane
+ * turns vertical and overhangs (a mast ring raised past the graph limit).
+ */
+const STEEP_SLOPE = Math.tan((75 * Math.PI) / 180)
+
 interface Cache {
   structureKey: string
+  /** Meshed by meshParametric (rings over rings, or a two-loop frame too steep for a plan mesh). */
+  parametric: boolean
   /** The mesh as meshed or remapped for the last frame (start positions, not solved). */
   mesh: MembraneMesh
   /** Last solved positions when they were settled, for warm starts. */
@@ -50,6 +59,22 @@ interface Cache {
 /** A stateful form finder for one room (one frame edited over time). */
 export function createFormFinder(): FormFinder {
   let cache: Cache | undefined
+  /** Meshes (warm when the cache allows) and solves; returns the new cache entry too. */
+  const attempt = (frame: Frame, structureKey: string, parametric: boolean, options: EngineOptions) => {
+    let mesh: MembraneMesh | null = null
+    const reusable = cache && cache.structureKey === structureKey && cache.parametric === parametric ? cache : undefined
+    if (reusable) {
+      mesh = parametric ? meshParametric(frame).mesh : remapMesh(reusable.mesh, frame)
+      if (mesh && mesh.topologyKey !== reusable.mesh.topologyKey) mesh = null
+    }
+    const previous = mesh ? reusable : undefined
+    mesh ??= parametric ? meshParametric(frame).mesh : meshFrame(frame)
+    const next: Cache = { structureKey, parametric, mesh, solved: undefined }
+    if (previous) Object.assign(next, { heightSystem: previous.heightSystem, spatial: previous.spatial })
+    // a steep two-loop frame is better re-meshed as an annulus than continued on its plan mesh
+    const remeshable = !parametric && frame.loops.length === 2
+    return { next, mesh, ...solveOnMesh(frame, mesh, next, previous?.solved, options, !remeshable) }
+  }
   return {
     reset() {
       cache = undefined
@@ -57,16 +82,10 @@ export function createFormFinder(): FormFinder {
     solve(input, options = {}) {
       const frame = validateFrame(input as Frame)
       const structureKey = frameStructureKey(frame)
-      const parametric = frameNeedsParametricMesh(frame)
-      let mesh: MembraneMesh | null = null
-      if (cache && cache.structureKey === structureKey) {
-        mesh = parametric ? meshParametric(frame).mesh : remapMesh(cache.mesh, frame)
-        if (mesh && mesh.topologyKey !== cache.mesh.topologyKey) mesh = null
-      }
-      const previous = mesh ? cache : undefined
-      mesh ??= parametric ? meshParametric(frame).mesh : meshFrame(frame)
-      const next: Cache = { structureKey, mesh, solved: undefined, ...(previous ? { heightSystem: previous.heightSystem, spatial: previous.spatial } : {}) }
-      const { vertices, report } = solveOnMesh(frame, mesh, next, previous?.solved, options)
+      const sticky = cache?.structureKey === structureKey && cache.parametric
+      let outcome = attempt(frame, structureKey, frameNeedsParametricMesh(frame) || sticky, options)
+      if (outcome.steep) outcome = attempt(frame, structureKey, true, options)
+      const { next, mesh, vertices, report } = outcome
       const finite = vertices.every(Number.isFinite)
       next.solved = finite && report.converged ? vertices : undefined
       cache = next
@@ -78,21 +97,26 @@ export function createFormFinder(): FormFinder {
   }
 }
 
-/** Runs the right path on `mesh`, warm from `solved` when given; updates the systems in `cache`. */
+/**
+ * Runs the right path on `mesh`, warm from `solved` when given; updates the systems in `cache`.
+ * steep: the height field turned near-vertical and continuing on this plan mesh was not allowed.
+ */
 function solveOnMesh(
   frame: Readonly<Frame>,
   mesh: Readonly<MembraneMesh>,
   cache: Cache,
   solved: Float64Array | undefined,
   control: EngineOptions,
-): { vertices: Float64Array; report: SolverReport } {
+  continueSteep: boolean,
+): { vertices: Float64Array; report: SolverReport; steep: boolean } {
   const constraints = frameConstraints(mesh, frame)
+  const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame)
   const start = Float64Array.from(mesh.vertices)
   if (solved) {
     for (let v = 0; v < constraints.isFixed.length; v++) {
       // held vertices take the new frame; free ones resume where the last solution left them
       if (constraints.isFixed[v]) continue
-      if (frameNeedsSpatialSolve(frame)) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v)
+      if (spatialPath) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v)
       else start[3 * v + 2] = solved[3 * v + 2]!
     }
   }
@@ -103,17 +127,19 @@ function solveOnMesh(
     const report = earlier
       ? { ...result.report, method: `${earlier.method}+${result.report.method}`, iterations: earlier.iterations + result.report.iterations, ms: earlier.ms + result.report.ms }
       : result.report
-    return { vertices: result.vertices, report }
+    return { vertices: result.vertices, report, steep: false }
   }
-  if (frameNeedsSpatialSolve(frame)) return spatial(start)
+  if (spatialPath) return spatial(start)
   const previous = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
   const problem = { vertices: start, triangles: mesh.triangles, isFixed: constraints.isFixed }
   const result = solveHeightField(problem, control, solved !== undefined, cache.heightSystem, previous)
   cache.heightSystem = result.system
   const vertices = Float64Array.from(start)
   for (let v = 0; v < result.heights.length; v++) vertices[3 * v + 2] = result.heights[v]!
-  if (result.report.converged || result.report.reason === 'cancelled') return { vertices, report: result.report }
-  // the surface may turn vertical (not a height field): continue in 3D from the finite start
+  const steep = result.steepest > STEEP_SLOPE
+  if ((result.report.converged && !steep) || result.report.reason === 'cancelled') return { vertices, report: result.report, steep: false }
+  if (steep && !continueSteep) return { vertices, report: result.report, steep: true }
+  // the surface turns (nearly) vertical and may overhang, or Newton failed: continue in 3D
   return spatial(vertices.every(Number.isFinite) ? vertices : start, result.report)
 }
 

@@ -24,6 +24,8 @@ export interface HeightFieldResult {
   report: SolverReport
   /** Pattern, ordering and last factor: pass back for the next solve on the same topology. */
   system: SpdSystem
+  /** Largest face slope |∇u| (dimensionless): near-vertical faces mean "not a height field". */
+  steepest: number
 }
 
 /**
@@ -66,6 +68,7 @@ export function solveHeightField(
     heights: u,
     report: report(HEIGHT_FIELD_METHOD, start, iterations, residual, reason),
     system: sys,
+    steepest: steepestSlope(plan, u),
   })
 
   let iterations = 0
@@ -170,4 +173,20 @@ function predict(
   for (let v = 0; v < u.length; v++) if (freeIndex[v]! >= 0) u[v] = previous[v]!
   scatterAdd(u, step, freeIndex, 1)
   return 1
+}
+
+/** max over faces of |∇u| (the discrete area is convex, so a solution always exists; a huge slope
+ * shows the continuous surface wants to turn vertical there). */
+function steepestSlope(plan: Readonly<PlanElements>, u: Readonly<Float64Array>): number {
+  const { triangles, data } = plan
+  let worst = 0
+  for (let t = 0, o = 0; o < data.length; t += 3, o += 7) {
+    if (data[o] === 0) continue
+    const u0 = u[triangles[t]!]!, u1 = u[triangles[t + 1]!]!, u2 = u[triangles[t + 2]!]!
+    const gx = u0 * data[o + 1]! + u1 * data[o + 2]! + u2 * data[o + 3]!
+    const gy = u0 * data[o + 4]! + u1 * data[o + 5]! + u2 * data[o + 6]!
+    const g = Math.hypot(gx, gy)
+    if (!(g <= worst)) worst = g
+  }
+  return worst
 }
