@@ -43,6 +43,35 @@ export const router = createRouter({
       meta: { title: 'Room' },
     },
     {
+      path: '/rooms/:id/compare',
+      name: 'snapshot-compare',
+      component: () => import('../views/SnapshotCompareView.vue'),
+      props: true,
+      meta: { title: 'Compare snapshots' },
+    },
+    {
+      path: '/rooms/:id/report',
+      name: 'room-report',
+      component: () => import('../views/ReportView.vue'),
+      props: true,
+      meta: { title: 'Report' },
+    },
+    // Public: a signed-out guest previews the invite, then signs in or up and comes back here.
+    {
+      path: '/invite/:token',
+      name: 'invite',
+      component: () => import('../views/InviteView.vue'),
+      props: true,
+      meta: { public: true, title: 'Invite' },
+    },
+    // Public like its API: outside production the fake SMTP inbox, in production a "not available" note.
+    {
+      path: '/dev/mailbox',
+      name: 'dev-mailbox',
+      component: () => import('../views/MailboxView.vue'),
+      meta: { public: true, title: 'Dev mailbox' },
+    },
+    {
       path: '/:missing(.*)*',
       name: 'not-found',
       component: () => import('../views/NotFoundView.vue'),
