@@ -8,7 +8,7 @@ import type { Frame, MembraneMesh } from '../types'
 import { resampleLoops } from './boundary'
 import { domainTriangles } from './domain-triangles'
 import { latticePoints } from './lattice'
-import { meshTopologyKey } from './quantities'
+import { meshPlanMinAngle, meshTopologyKey } from './quantities'
 import { orient } from './plan-geometry'
 import { MeshError } from './mesh-error'
 import { frameNeedsParametricMesh } from '../frame/classify'
@@ -95,7 +95,7 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
     vertexEdges,
     vertexPoints,
     boundaryLoops: b.loops.map((l) => Uint32Array.from(l)),
-    minAngle: planMinAngle(coords, triangles),
+    minAngle: meshPlanMinAngle(vertices, triangles),
     topologyKey: meshTopologyKey(nV, triangles),
   }
 }
@@ -161,27 +161,4 @@ function firstGuessHeights(
       if (e > a) V[3 * v + 2] = z / (e - a)
     }
   }
-}
-
-/** Smallest plan triangle angle, degrees. coords: #V×2, T: #T×3. */
-function planMinAngle(coords: Float64Array, T: Uint32Array): number {
-  let m = Math.PI
-  for (let t = 0; t < T.length; t += 3) {
-    // The smallest angle is opposite the shortest edge: one atan2 per triangle.
-    let best = -1, shortest = Infinity
-    for (let k = 0; k < 3; k++) {
-      const q = 2 * T[t + ((k + 1) % 3)]!, r = 2 * T[t + ((k + 2) % 3)]!
-      const l2 = (coords[r]! - coords[q]!) ** 2 + (coords[r + 1]! - coords[q + 1]!) ** 2
-      if (l2 < shortest) {
-        shortest = l2
-        best = k
-      }
-    }
-    const p = 2 * T[t + best]!, q = 2 * T[t + ((best + 1) % 3)]!, r = 2 * T[t + ((best + 2) % 3)]!
-    const ux = coords[q]! - coords[p]!, uy = coords[q + 1]! - coords[p + 1]!
-    const vx = coords[r]! - coords[p]!, vy = coords[r + 1]! - coords[p + 1]!
-    const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
-    if (ang < m) m = ang
-  }
-  return (m * 180) / Math.PI
 }

@@ -92,6 +92,30 @@ export function meshMinAngle(V: Readonly<Float64Array>, T: Readonly<Uint32Array>
 }
 
 /**
+ * Smallest plan (xy) corner angle over the mesh, degrees; V: #V×3 (z ignored). The smallest angle
+ * of a triangle is opposite its shortest edge, so one atan2 per face.
+ */
+export function meshPlanMinAngle(V: Readonly<Float64Array>, T: Readonly<Uint32Array>): number {
+  let m = Math.PI
+  for (let t = 0; t < T.length; t += 3) {
+    let best = 0, shortest = Infinity
+    for (let k = 0; k < 3; k++) {
+      const q = 3 * T[t + ((k + 1) % 3)]!, r = 3 * T[t + ((k + 2) % 3)]!
+      const l2 = (V[r]! - V[q]!) ** 2 + (V[r + 1]! - V[q + 1]!) ** 2
+      if (l2 < shortest) {
+        shortest = l2
+        best = k
+      }
+    }
+    const p = 3 * T[t + best]!, q = 3 * T[t + ((best + 1) % 3)]!, r = 3 * T[t + ((best + 2) % 3)]!
+    const ux = V[q]! - V[p]!, uy = V[q + 1]! - V[p + 1]!, vx = V[r]! - V[p]!, vy = V[r + 1]! - V[p + 1]!
+    const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
+    if (ang < m) m = ang
+  }
+  return (m * 180) / Math.PI
+}
+
+/**
  * Cotangent weights per face corner: #T×3, entry 3t+k = ½·cot(angle at corner k), the weight that
  * corner contributes to the opposite edge (T[3t+k+1], T[3t+k+2]) of the cotan Laplacian.
  */

@@ -3,7 +3,7 @@
  * the connectivity and topologyKey stay, so the solver can warm start and reuse its factorisation.
  */
 import type { Frame, MembraneMesh } from '../types'
-import { meshMinAngle, planFaceAreas } from './quantities'
+import { meshPlanMinAngle, planFaceAreas } from './quantities'
 import { buildVertexNeighbours } from './smoothing'
 
 /** Below this smallest angle (degrees) a remapped mesh is refused and the frame meshed afresh. */
@@ -51,9 +51,7 @@ export function remapMesh(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame>):
   moveInterior(V0, V, isBoundary, moves, mesh.triangles)
   const areas = planFaceAreas(new Float64Array(mesh.triangles.length / 3), V, mesh.triangles)
   for (let t = 0; t < areas.length; t++) if (!(areas[t]! > 0)) return null
-  const plan = new Float64Array(V)
-  for (let v = 0; v < nV; v++) plan[3 * v + 2] = 0
-  const minAngle = meshMinAngle(plan, mesh.triangles)
+  const minAngle = meshPlanMinAngle(V, mesh.triangles)
   if (minAngle < MIN_REMAP_ANGLE) return null
   return { ...mesh, vertices: V, minAngle }
 }
