@@ -27,7 +27,7 @@ function frame(edgeLength: number, lift = 0): Frame {
 function calibrationMs(): number {
   const a = new Float64Array(1e6)
   const t = performance.now()
-  for (let r = 0; r < 100; r++) for (let i = 0; i < a.length; i++) a[i] += i * 0.5
+  for (let r = 0; r < 100; r++) for (let i = 0; i < a.length; i++) a[i]! += i * 0.5
   return performance.now() - t
 }
 
