@@ -11,6 +11,8 @@ import { authRoutes } from './modules/auth/auth-routes.js'
 import { authService } from './modules/auth/auth-service.js'
 import { roomsRoutes } from './modules/rooms/rooms-routes.js'
 import { roomsService } from './modules/rooms/rooms-service.js'
+import { teamworkRoutes } from './modules/invites/teamwork-routes.js'
+import { lateRoomLive, type LateRoomLive } from './modules/snapshots/room-live.js'
 import { createSession } from './session.js'
 
 export interface AppDeps {
@@ -29,6 +31,8 @@ export interface AppBundle {
   passportSession: RequestHandler
   /** Mount extra /api routers here before the 404 and error handlers (e.g. snapshots, pins). */
   api: express.Router
+  /** The team-work routes' view of the live room: attach the realtime accessors once they exist. */
+  live: LateRoomLive
   close: () => Promise<void>
 }
 
@@ -82,6 +86,8 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
   api.use(csrfSynchronisedProtection)
   api.use('/auth', authRoutes({ auth, passport, csrfToken: (req) => generateToken(req) }))
   api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource)))
+  const live = lateRoomLive()
+  api.use(teamworkRoutes({ config, dataSource, live }))
   app.use('/api', api)
   // Routers added to `api` later still run before these: they live inside the mounted router.
   app.use('/api', apiNotFound)
@@ -91,5 +97,5 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
   }
   app.use(errorHandler)
 
-  return { app, sessionMiddleware: session.middleware, passportSession, api, close: session.close }
+  return { app, sessionMiddleware: session.middleware, passportSession, api, live, close: session.close }
 }

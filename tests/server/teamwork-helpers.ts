@@ -4,10 +4,8 @@ import { loadConfig } from '../../server/config.js'
 import { createDataSource } from '../../server/db/data-source.js'
 import { MembershipEntity, type RoomRole } from '../../server/db/entities/index.js'
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp.js'
-import { loadMailConfig } from '../../server/mail/mail-config.js'
 import { dbMailbox } from '../../server/mail/mailbox.js'
 import type { Running } from '../../server/main.js'
-import { teamworkRoutes } from '../../server/modules/invites/teamwork-routes.js'
 import type { LatestSurface, RoomLive } from '../../server/modules/snapshots/room-live.js'
 import type { Frame, SurfaceResult } from '../../shared/types.js'
 import { SESSION_COOKIE } from '../../server/session.js'
@@ -47,16 +45,20 @@ export interface TeamworkServer {
 }
 
 /**
- * The real app on port 0 with the team-work routes mounted, and a fake SMTP server on a random port
- * that files mail into the test database (read back through GET /api/dev/mailbox).
+ * The real app on port 0 (team-work routes included), a fake SMTP server on a random port that
+ * files mail into the test database (read back through GET /api/dev/mailbox), and the live room
+ * replaced by a recording stand-in (optionally forwarding to `inner`).
  */
 export async function startTeamworkServer(inner?: Partial<RoomLive>): Promise<TeamworkServer> {
   const config = loadConfig({ ...process.env, NODE_ENV: 'test' })
   const mailData = await createDataSource(config).initialize()
   const smtp = await startFakeSmtp(dbMailbox(mailData), 0)
+  // createApp reads SMTP_* when it builds the team-work routes; each test file runs in its own process.
+  process.env.SMTP_HOST = '127.0.0.1'
+  process.env.SMTP_PORT = String(smtp.port)
   const server = await startTestServer()
   const live = recordingLive(inner)
-  server.api.use(teamworkRoutes({ config: server.config, dataSource: server.dataSource, live, mail: { ...loadMailConfig({}), port: smtp.port } }))
+  server.live.attach(live)
   return {
     server,
     url: server.url,

@@ -1,4 +1,5 @@
 import type { Figures, Frame, SolverReport } from '../../../shared/types.js'
+import { AppError } from '../../lib/app-error.js'
 
 /** The room's last settled (fine) surface, as the realtime layer keeps it. */
 export interface LatestSurface {
@@ -20,4 +21,28 @@ export interface RoomLive {
   getLatestSurface(roomId: string): Promise<LatestSurface | null>
   emitToRoom(roomId: string, event: string, payload: unknown): void
   closeRoomSockets(roomId?: string, userId?: string): void
+}
+
+/** A RoomLive whose implementation is attached once the realtime layer is up (after createApp). */
+export interface LateRoomLive extends RoomLive {
+  attach(impl: RoomLive): void
+}
+
+/**
+ * Until attach() is called, reading frames and surfaces answers 503 'live_unavailable'; broadcasts
+ * and socket closing are skipped (nobody can be connected without the realtime layer).
+ */
+export function lateRoomLive(): LateRoomLive {
+  let impl: RoomLive | null = null
+  const unavailable = () =>
+    new AppError('live_unavailable', 503, 'The live room service is not running, so the frame and surface cannot be read.')
+  return {
+    attach(next) {
+      impl = next
+    },
+    getRoomFrame: (roomId) => (impl ? impl.getRoomFrame(roomId) : Promise.reject(unavailable())),
+    getLatestSurface: (roomId) => (impl ? impl.getLatestSurface(roomId) : Promise.reject(unavailable())),
+    emitToRoom: (roomId, event, payload) => impl?.emitToRoom(roomId, event, payload),
+    closeRoomSockets: (roomId, userId) => impl?.closeRoomSockets(roomId, userId),
+  }
 }
