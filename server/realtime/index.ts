@@ -34,6 +34,19 @@ export interface Realtime {
   close: () => Promise<void>
 }
 
+/**
+ * Gives rooms their starting frames without a running server (scripts/migrate.ts --seed, the demo
+ * seed): only rooms whose document is empty are written.
+ */
+export async function seedRoomFrames(dataSource: DataSource, frames: Record<string, StarterKey>): Promise<void> {
+  const rooms = new RoomDocs(dataSource)
+  try {
+    for (const [roomId, key] of Object.entries(frames)) await rooms.ensureRoomFrame(roomId, key)
+  } finally {
+    await rooms.close()
+  }
+}
+
 export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime {
   const { config, tuning = {} } = deps
   const access = { sessionMiddleware: deps.sessionMiddleware, passportSession: deps.passportSession, dataSource: deps.dataSource }

@@ -31,6 +31,8 @@ export class LiveRoom {
   chain: Promise<void> = Promise.resolve()
   sinceCompact = 0
   lastUpdateId = 0
+  /** True when this load found no document and wrote a starting frame. */
+  seeded = false
   idleTimer: NodeJS.Timeout | undefined
   readonly relays = new Set<RelayListener>()
 
@@ -80,12 +82,16 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     return [...this.loaded.values()]
   }
 
-  /** Loads (once) and holds a room; every acquire needs one release. Rejects when the load fails. */
-  async acquire(roomId: string): Promise<LiveRoom> {
+  /**
+   * Loads (once) and holds a room; every acquire needs one release. Rejects when the load fails.
+   * A room that has never had a document gets the `starter` frame (default: the blank square), so
+   * nobody opens an empty board.
+   */
+  async acquire(roomId: string, starter: StarterKey = 'blank'): Promise<LiveRoom> {
     if (this.closed) throw new Error('realtime is shutting down')
     let pending = this.rooms.get(roomId)
     if (!pending) {
-      pending = this.load(roomId)
+      pending = this.load(roomId, starter)
       this.rooms.set(roomId, pending)
       pending.catch(() => this.rooms.delete(roomId))
     }
@@ -117,8 +123,14 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
    * call whether or not the room is live; returns once the frame is stored.
    */
   async ensureRoomFrame(roomId: string, starterKey: StarterKey): Promise<boolean> {
-    const room = await this.acquire(roomId)
+    const fresh = !this.rooms.has(roomId)
+    const room = await this.acquire(roomId, starterKey)
     try {
+      // A fresh load of an empty room has just been seeded with this starter.
+      if (fresh && room.seeded) {
+        await this.flush(room)
+        return true
+      }
       if (readRawFrame(room.doc) !== null) return false
       writeFrame(room.doc, starterFrame(starterKey), SEED)
       await this.flush(room)
@@ -142,7 +154,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     this.loaded.clear()
   }
 
-  private async load(roomId: string): Promise<LiveRoom> {
+  private async load(roomId: string, starter: StarterKey): Promise<LiveRoom> {
     const stored = await loadStoredRoom(this.ds, roomId)
     const room = new LiveRoom(roomId)
     Y.transact(
@@ -159,6 +171,10 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     room.doc.on('update', (update: Uint8Array, origin: unknown) => {
       if (origin !== LOAD) this.accepted(room, update, origin)
     })
+    if (stored.state === null && stored.updates.length === 0) {
+      writeFrame(room.doc, starterFrame(starter), SEED)
+      room.seeded = true
+    }
     this.loaded.set(roomId, room)
     this.emit('loaded', room)
     return room

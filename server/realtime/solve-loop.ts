@@ -122,7 +122,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       send(w, 'solve:state', { version, state: 'unsettled', reason: 'solver-error', message: outcome.message })
       return false
     }
-    const { kind: _k, ...surface } = outcome
+    const { kind: _k, worker: _w, ...surface } = outcome
     send(w, 'surface', { version, stateVector, coarse, ...surface })
     if (!coarse) {
       w.warmKey = structureOf(frame)

@@ -9,8 +9,9 @@ import { logger } from '../lib/logger.js'
 import type { FromWorker, SurfacePayload, ToWorker } from './solve-messages.js'
 
 export type SolveOutcome =
-  | ({ kind: 'result' } & SurfacePayload)
-  | { kind: 'cancelled' }
+  | ({ kind: 'result'; worker: number } & SurfacePayload)
+  /** `solver` is there when the worker answered: its reason says whether the engine saw the flag. */
+  | { kind: 'cancelled'; solver?: SurfacePayload['solver'] }
   | { kind: 'failed'; message: string }
 
 export interface SolveHandle {
@@ -148,15 +149,16 @@ export class SolvePool {
     const slot: Slot = { worker, job: null }
     this.slots[index] = slot
     worker.on('message', (m: FromWorker) => this.onMessage(slot, m))
+    const stopped = (): SolveOutcome => (this.closed ? { kind: 'cancelled' } : { kind: 'failed', message: 'the solver stopped unexpectedly' })
     worker.on('error', (err) => {
       logger.error('realtime: solve worker crashed', { err: String(err) })
-      this.finish(slot, { kind: 'failed', message: 'the solver stopped unexpectedly' })
+      this.finish(slot, stopped())
     })
     worker.on('exit', () => {
       if (this.slots[index] !== slot) return
       this.slots[index] = null
       for (const [room, home] of this.home) if (home === index) this.home.delete(room)
-      if (slot.job) this.finish(slot, { kind: 'failed', message: 'the solver stopped unexpectedly' })
+      if (slot.job) this.finish(slot, stopped())
     })
     worker.unref()
     return slot
@@ -170,7 +172,8 @@ export class SolvePool {
     else {
       const { type: _t, jobId: _j, ...payload } = m
       const cancelled = Atomics.load(job.flag, 0) !== 0
-      this.finish(slot, cancelled ? { kind: 'cancelled' } : { kind: 'result', ...payload })
+      const worker = this.slots.indexOf(slot)
+      this.finish(slot, cancelled ? { kind: 'cancelled', solver: payload.solver } : { kind: 'result', worker, ...payload })
     }
   }
 

@@ -118,4 +118,15 @@ describe('RoomDocs persistence', () => {
     await docs.release(room)
     await docs.close()
   })
+
+  it('gives a room without any document the blank starting frame on first open', async () => {
+    const roomId = await makeRoom(ds, [{ userId: ownerId, role: 'owner' }])
+    const docs = new RoomDocs(ds)
+    const room = await docs.acquire(roomId)
+    expect(JSON.stringify(readRawFrame(room.doc))).toContain('"b1"')
+    await docs.release(room)
+    const [stored] = (await ds.query('SELECT version FROM room_documents WHERE room_id = ?', [roomId])) as { version: number }[]
+    expect(Number(stored!.version)).toBe(1)
+    await docs.close()
+  })
 })
