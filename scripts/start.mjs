@@ -5,6 +5,7 @@ import { existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, startDb, stopDb } from './db.mjs'
 import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild } from './helpers.mjs'
+import { startFakeSmtpChild } from '../server/mail/fake-smtp-child.mjs'
 
 const fail = (msg) => {
   console.error(`[start] ${msg}`)
@@ -27,6 +28,18 @@ if (await run('tsx', ['scripts/migrate.ts', '--seed'], { env })) {
 if (hasClientSources() && clientBuildIsStale()) {
   console.log('[start] building the client (vite build)…')
   if (await run('vite', ['build'])) console.error('[start] client build failed: the API still starts, the web pages will not')
+}
+
+// Outside production, invites go to the fake SMTP server unless a real one is configured.
+let smtp = null
+if (process.env.NODE_ENV !== 'production' && !process.env.SMTP_HOST) {
+  try {
+    smtp = await startFakeSmtpChild({ ...env, SMTP_PORT: process.env.SMTP_PORT ?? '2525' })
+    env.SMTP_PORT = String(smtp.port)
+    console.log(`[start] fake SMTP server on 127.0.0.1:${smtp.port}; mail shows at /api/dev/mailbox`)
+  } catch (err) {
+    console.error(`[start] ${err.message}: invites cannot be mailed`)
+  }
 }
 
 let server
@@ -57,6 +70,7 @@ async function shutdown(signal) {
   stopping = true
   console.log(`\n[start] ${signal}: stopping server and database…`)
   await stopChild(server.child)
+  await stopChild(smtp?.child)
   await stopDbIfOurs()
   process.exit(0)
 }
@@ -65,6 +79,7 @@ process.on('SIGTERM', () => shutdown('SIGTERM'))
 server.child.on('exit', async (code) => {
   if (stopping) return
   console.error(`[start] server exited (code ${code}); stopping the database`)
+  await stopChild(smtp?.child)
   await stopDbIfOurs()
   process.exit(code || 1)
 })

@@ -6,6 +6,7 @@ import { existsSync, readdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
 import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild } from './helpers.mjs'
+import { startFakeSmtpChild } from '../server/mail/fake-smtp-child.mjs'
 
 // `npm test -- --browser` runs only the browser tests (with the database and server they need).
 const browserOnly = process.argv.includes('--browser')
@@ -50,6 +51,7 @@ const env = {
 }
 
 let server = null
+let smtp = null
 try {
   const migrated = await stage('migrate + demo seed (test database)', () => run('tsx', ['scripts/migrate.ts', '--seed'], { env }))
   if (migrated === 0) {
@@ -62,13 +64,16 @@ try {
           if ((await run('apt-get', ['update'])) || (await run('apt-get', ['install', '-y', 'chromium']))) return 1
         }
         if (clientBuildIsStale() && (await run('vite', ['build']))) return 1
-        server = await startServerChild({ ...env, PORT: '0' })
+        // Invite mail goes to a fake SMTP server on a free port, read back through /api/dev/mailbox.
+        smtp = await startFakeSmtpChild({ ...env, SMTP_PORT: '0' })
+        server = await startServerChild({ ...env, PORT: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtp.port) })
         return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts'], { env: { ...env, BASE_URL: server.url } })
       })
     }
   }
 } finally {
   await stopChild(server?.child)
+  await stopChild(smtp?.child)
   await dropDatabase(db).catch((err) => console.error(`[db] could not drop ${db.database}: ${err.message}`))
   // Another engineer's run may share this instance: stop it only when no test database is left.
   const others = await rootSql(db.port, "SHOW DATABASES LIKE 'veilroom\\_test\\_%'").catch(() => '')

@@ -4,7 +4,6 @@ import { loadConfig } from '../config.js'
 import { createDataSource } from '../db/data-source.js'
 import { logger } from '../lib/logger.js'
 import { startFakeSmtp } from './fake-smtp.js'
-import { loadMailConfig } from './mail-config.js'
 import { dbMailbox } from './mailbox.js'
 
 const config = loadConfig()
@@ -12,9 +11,14 @@ if (config.NODE_ENV === 'production') {
   logger.error('the fake SMTP server is for development only; set SMTP_HOST to a real server in production')
   process.exit(1)
 }
-const mail = loadMailConfig()
+// SMTP_PORT=0 picks a free port (tests); the line printed below tells the parent which.
+const port = Number(process.env.SMTP_PORT ?? 2525)
+if (!Number.isInteger(port) || port < 0 || port > 65535) {
+  logger.error(`SMTP_PORT=${process.env.SMTP_PORT}: not a port number`)
+  process.exit(1)
+}
 const dataSource = await createDataSource(config).initialize()
-const smtp = await startFakeSmtp(dbMailbox(dataSource), mail.port)
+const smtp = await startFakeSmtp(dbMailbox(dataSource), port)
 // The parent process reads this line to learn the port (useful with SMTP_PORT=0).
 console.log(`fake SMTP listening on 127.0.0.1:${smtp.port}`)
 
