@@ -1,5 +1,22 @@
-export { solveHeightField, HEIGHT_FIELD_METHOD, type HeightFieldProblem, type HeightFieldResult } from './height-field'
-export { solveSpatial, spatialSetup, SPATIAL_METHOD, type SpatialProblem, type SpatialResult, type SpatialSetup } from './spatial'
-export { frameConstraints, isotropicPrestress, frameStructureKey, type FrameConstraints } from './frame-problem'
-export { SpdSystem } from './spd-system'
-export type { SolveControl } from './control'
+export {
+  solveHeightField,
+  HEIGHT_FIELD_METHOD,
+  type HeightFieldProblem,
+  type HeightFieldResult,
+} from "./height-field";
+export {
+  solveSpatial,
+  spatialSetup,
+  SPATIAL_METHOD,
+  type SpatialProblem,
+  type SpatialResult,
+  type SpatialSetup,
+} from "./spatial";
+export {
+  frameConstraints,
+  isotropicPrestress,
+  frameStructureKey,
+  type FrameConstraints,
+} from "./frame-problem";
+export { SpdSystem } from "./spd-system";
+export type { SolveControl } from "./control";
