@@ -51,12 +51,15 @@ export function syncBase(loc: { protocol: string; host: string } = pageLocation(
   return `${loc.protocol === 'https:' ? 'wss:' : 'ws:'}//${loc.host}`
 }
 
+/** Edits closer together than this (ms) undo as one step, e.g. typing then tabbing on. */
+export const CAPTURE_TIMEOUT_MS = 400
+
 /**
  * An undo manager over the frame that tracks only transactions made with `origin`, so undo never
  * reverts a peer's edit. Edits in shared/room-doc/edits.ts take the origin as their last argument.
  */
 export function createUndoManager(doc: Y.Doc, origin: object): Y.UndoManager {
-  return new Y.UndoManager(frameMap(doc), { trackedOrigins: new Set([origin]), captureTimeout: 400 })
+  return new Y.UndoManager(frameMap(doc), { trackedOrigins: new Set([origin]), captureTimeout: CAPTURE_TIMEOUT_MS })
 }
 
 export interface Collaboration {

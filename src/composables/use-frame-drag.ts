@@ -57,7 +57,7 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
     if (!hit) return
     store.select({ loopId: hit.loopId, pointId: hit.point.id })
     if (store.readOnly) return
-    store.stopCapturing()
+    store.beginGesture()
     drag = { loopId: hit.loopId, pointId: hit.point.id, startY: ev.clientY, startZ: hit.point.z, vertical: ev.shiftKey || ev.altKey, moved: false }
     vp.controls().enabled = false
     vp.canvas.setPointerCapture(ev.pointerId)
@@ -88,7 +88,7 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
     drag = null
     vp.controls().enabled = true
     if (vp.canvas.hasPointerCapture(ev.pointerId)) vp.canvas.releasePointerCapture(ev.pointerId)
-    store.stopCapturing()
+    store.endGesture()
   }
 
   function onDoubleClick(ev: MouseEvent): void {

@@ -97,12 +97,17 @@ export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode
 
     const fit = (min: THREE.Vector3Like, max: THREE.Vector3Like): void => {
       const c = new THREE.Vector3((min.x + max.x) / 2, (min.y + max.y) / 2, (min.z + max.z) / 2)
-      const size = Math.max(max.x - min.x, max.y - min.y, max.z - min.z, 2)
-      persp.position.set(c.x - 0.9 * size, c.y - 1.3 * size, c.z + 0.9 * size)
+      const radius = Math.max(1, new THREE.Vector3(max.x - min.x, max.y - min.y, max.z - min.z).length() / 2)
+      const aspect = Math.max(1, el.clientWidth) / Math.max(1, el.clientHeight)
+      // the bounding sphere must fit the narrower of the two fields of view, with a margin
+      const halfV = THREE.MathUtils.degToRad(persp.fov / 2)
+      const halfFov = Math.min(halfV, Math.atan(Math.tan(halfV) * aspect))
+      const distance = (1.15 * radius) / Math.sin(halfFov)
+      const dir = new THREE.Vector3(-0.45, -0.75, 0.5).normalize()
+      persp.position.copy(c).addScaledVector(dir, distance)
       perspControls.target.copy(c)
       perspControls.update()
-      const aspect = Math.max(1, el.clientWidth) / Math.max(1, el.clientHeight)
-      const half = 0.7 * size
+      const half = 1.15 * Math.max((max.y - min.y) / 2, (max.x - min.x) / 2 / aspect, 1)
       Object.assign(ortho, { left: -half * aspect, right: half * aspect, top: half, bottom: -half, zoom: 1 })
       ortho.position.set(c.x, c.y, 500)
       orthoControls.target.set(c.x, c.y, 0)

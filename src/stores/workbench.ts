@@ -4,7 +4,7 @@ import type { Figures, SolverReport } from '../../shared/types.ts'
 import * as edits from '../../shared/room-doc/edits.ts'
 import type { EdgeKind } from '../../shared/types.ts'
 import {
-  includesClock, openRoomDocument, ownClock, trackPeers,
+  CAPTURE_TIMEOUT_MS, includesClock, openRoomDocument, ownClock, trackPeers,
   type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,
 } from '../api/collaboration'
 import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
@@ -186,8 +186,23 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   }
   /** Sets prestress (kN/m) and/or element size (m). */
   const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) => edit((c) => edits.setSettings(c.doc, s, c.origin))
-  /** Ends the current undo step, so the next edit (a new drag) undoes separately. */
+  /** Ends the current undo step, so the next edit undoes separately. */
   const stopCapturing = (): void => collab?.undo.stopCapturing()
+  /**
+   * Starts a gesture (a drag): all its moves become one undo step however slowly they arrive, until
+   * endGesture. Without this, a pause longer than the capture timeout would split one drag.
+   */
+  function beginGesture(): void {
+    if (!collab) return
+    collab.undo.stopCapturing()
+    collab.undo.captureTimeout = Number.POSITIVE_INFINITY
+  }
+  /** Ends a gesture started with beginGesture. */
+  function endGesture(): void {
+    if (!collab) return
+    collab.undo.captureTimeout = CAPTURE_TIMEOUT_MS
+    collab.undo.stopCapturing()
+  }
   /** Undoes my own latest edit (never a peer's). */
   const undo = (): void => void edit((c) => c.undo.undo(), true)
   /** Redoes my own latest undone edit. */
@@ -203,6 +218,6 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     roomId, role, readOnly, frame, rows, selection, surface, figures, status, sync, synced, streamError,
     colourMode, viewMode, snapOn, snapStep, peers, canUndo, canRedo, surfaceIncludesMine,
     open, close, move, insertAfter, removePoint, setEdge, addHole, removeHole, setSettings,
-    stopCapturing, undo, redo, select,
+    stopCapturing, beginGesture, endGesture, undo, redo, select,
   }
 })
