@@ -36,12 +36,15 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   }
   const inner = latticePoints(b.xyz, segments, h, BOUNDARY_GAP * h)
   const nV = nB + inner.length / 2
-  const coords = new Float64Array(2 * nV)
+  // Four box corners well outside the frame come last: the convex hull is then the box, never a
+  // straight run of nearly collinear boundary samples (which constrainautor cannot constrain).
+  const coords = new Float64Array(2 * (nV + 4))
   for (let i = 0; i < nB; i++) {
     coords[2 * i] = b.xyz[3 * i]!
     coords[2 * i + 1] = b.xyz[3 * i + 1]!
   }
   coords.set(inner, 2 * nB)
+  coords.set(boxCorners(b.xyz, h), 2 * nV)
 
   const del = new Delaunator(coords)
   const con = new Constrainautor(del)
@@ -49,7 +52,7 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   if (con.untriangulatedPoints().length > 0) {
     throw new MeshError('mesh', 'frame points lie too close together for the target edge length')
   }
-  const nextOnLoop = new Int32Array(nV).fill(-1)
+  const nextOnLoop = new Int32Array(nV + 4).fill(-1)
   for (const [p, q] of segments) nextOnLoop[p] = q
 
   const keep = domainTriangles(del.triangles, del.halfedges, nextOnLoop)
@@ -70,7 +73,7 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   // Only the band next to the boundary is irregular; the hexagonal lattice beyond it is already ideal.
   const isInterior = boundaryBand(nB, neighbours, 2)
   // Smart smoothing never turns a triangle over, so the orientation above stays valid.
-  smoothInterior(coords, neighbours, isInterior, triangles, SMOOTHING_SWEEPS)
+  smoothInterior(coords.subarray(0, 2 * nV), neighbours, isInterior, triangles, SMOOTHING_SWEEPS)
 
   const vertices = new Float64Array(3 * nV)
   for (let v = 0; v < nV; v++) {
@@ -98,6 +101,19 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
     minAngle: meshPlanMinAngle(vertices, triangles),
     topologyKey: meshTopologyKey(nV, triangles),
   }
+}
+
+/** Corners (#4×2) of the samples' bounding box grown by half its size plus h on every side. */
+function boxCorners(xyz: readonly number[], h: number): number[] {
+  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity
+  for (let i = 0; i < xyz.length; i += 3) {
+    minX = Math.min(minX, xyz[i]!)
+    maxX = Math.max(maxX, xyz[i]!)
+    minY = Math.min(minY, xyz[i + 1]!)
+    maxY = Math.max(maxY, xyz[i + 1]!)
+  }
+  const grow = Math.max(maxX - minX, maxY - minY) / 2 + h
+  return [minX - grow, minY - grow, maxX + grow, minY - grow, maxX + grow, maxY + grow, minX - grow, maxY + grow]
 }
 
 /** Interior vertices (index ≥ nB) within `rings` neighbour rings of a boundary vertex: 1, else 0. */
