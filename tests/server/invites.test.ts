@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { invitesService } from '../../server/modules/invites/invites-service.js'
 import { uniqueEmail } from '../helpers/test-server.js'
 import { mailIds, mailTo, roomWithCast, startTeamworkServer, type RoomCast, type TeamworkServer } from './teamwork-helpers.js'
 
@@ -117,5 +118,21 @@ describe('invite flow through the fake SMTP server', () => {
     expect(bad.body.error.field).toBe('email')
     const role = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email: uniqueEmail(), role: 'admin' })
     expect(role.body.error.field).toBe('role')
+  })
+
+  it('refuses to invite someone who is already a member (409, field email)', async () => {
+    const [row] = await tw.server.dataSource.query('SELECT email FROM users WHERE id = ?', [cast.ids.viewer])
+    const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email: row.email, role: 'editor' })
+    expect(reply.status).toBe(409)
+    expect(reply.body.error).toMatchObject({ code: 'already_member', field: 'email' })
+  })
+
+  it('keeps nothing when the mail cannot be sent (502 mail_failed)', async () => {
+    const failing = { send: () => Promise.reject(new Error('connection refused')), close: () => {} }
+    const service = invitesService({ dataSource: tw.server.dataSource, mailer: failing, publicUrl: 'http://example.test' })
+    const email = uniqueEmail('unmailed')
+    await expect(service.create(cast.roomId, { email, role: 'viewer' }, { id: cast.ids.owner, name: 'Olga Owner' })).rejects.toMatchObject({ code: 'mail_failed', status: 502 })
+    const rows = await tw.server.dataSource.query('SELECT id FROM invites WHERE email = ?', [email])
+    expect(rows).toEqual([])
   })
 })

@@ -152,19 +152,21 @@ export function engineLive(solve: (frame: Frame) => SurfaceResult) {
   }
 }
 
+function parseMaybeJson(text: string): any {
+  try {
+    return text ? JSON.parse(text) : null
+  } catch {
+    return text
+  }
+}
+
 /** A multipart request as the signed-in client (its session cookie and CSRF token). */
 export async function sendForm(client: ApiClient, method: 'POST' | 'PUT', path: string, form: FormData) {
   const token = (await client.get<{ token: string }>('/api/auth/csrf')).body.token
   const cookie = `${SESSION_COOKIE}=${client.cookie(SESSION_COOKIE) ?? ''}`
   const res = await fetch(client.baseUrl + path, { method, body: form, headers: { cookie, 'x-csrf-token': token } })
   const text = await res.text()
-  let body: any = null
-  try {
-    body = text ? JSON.parse(text) : null
-  } catch {
-    body = text
-  }
-  return { status: res.status, body, headers: res.headers }
+  return { status: res.status, body: parseMaybeJson(text), headers: res.headers }
 }
 
 /** A GET whose body is a file (text or bytes), with the response headers. */

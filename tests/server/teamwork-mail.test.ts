@@ -1,4 +1,9 @@
+import type { AddressInfo } from 'node:net'
+import express from 'express'
+import type { DataSource } from 'typeorm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { errorHandler } from '../../server/lib/error-handler.js'
+import { devMailboxRoutes } from '../../server/mail/dev-mailbox-routes.js'
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp.js'
 import { memoryMailbox } from '../../server/mail/mailbox.js'
 import { createMailer } from '../../server/mail/mailer.js'
@@ -44,5 +49,23 @@ describe('fake SMTP server', () => {
     expect(decodeHeader('=?ISO-8859-1?Q?a?= =?ISO-8859-1?Q?b?=')).toBe('ab')
     expect(decodeHeader('=?ISO-8859-1?Q?a_b?=')).toBe('a b')
     expect(decodeHeader('=?utf-8?B?w4VzYQ==?=')).toBe('Åsa')
+  })
+})
+
+describe('dev mailbox route', () => {
+  it('answers 404 in production without touching the database', async () => {
+    const app = express()
+    // No database at all: the production router must not need one.
+    app.use('/api/dev', devMailboxRoutes({ dataSource: {} as DataSource, production: true }))
+    app.use(errorHandler)
+    const server = app.listen(0, '127.0.0.1')
+    await new Promise((r) => server.once('listening', r))
+    try {
+      const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/dev/mailbox`)
+      expect(res.status).toBe(404)
+      expect((await res.json()).error.code).toBe('not_found')
+    } finally {
+      server.close()
+    }
   })
 })
