@@ -40,6 +40,15 @@ async function csrf(): Promise<string> {
   return csrfToken
 }
 
+// Set by main.ts: what to do when the server says our session has ended (expired, signed out in
+// another tab). Kept as a hook so this module never imports the router or a store.
+let onSignedOut: (() => void) | null = null
+
+/** Register the reaction to a 401 'signed_out' from any call other than sign-in itself. */
+export function setSignedOutHandler(handler: (() => void) | null): void {
+  onSignedOut = handler
+}
+
 function isCsrfRefusal(err: unknown): boolean {
   return err instanceof ApiError && err.status === 403 && /csrf/i.test(err.code)
 }
@@ -59,7 +68,11 @@ async function call<T>(method: Method, path: string, body: unknown, reply: z.Zod
   } catch {
     throw new ApiError('network', 'The Veilroom server could not be reached. Check your connection and try again.', undefined, 0)
   }
-  if (!res.ok) throw await readError(res)
+  if (!res.ok) {
+    const err = await readError(res)
+    if (err.status === 401 && err.code === 'signed_out') onSignedOut?.()
+    throw err
+  }
   if (reply === null) return undefined as T
   const parsed = reply.safeParse(await res.json().catch(() => undefined))
   if (!parsed.success) {

@@ -155,3 +155,20 @@ describe('replies', () => {
     expect(sent[0]?.path).toBe('/api/rooms/..%2Fauth%2Fme')
   })
 })
+
+describe('a session that ended elsewhere', () => {
+  afterEach(() => api.setSignedOutHandler(null))
+
+  it('calls the signed-out handler on 401 signed_out, not on a wrong password', async () => {
+    const seen: string[] = []
+    api.setSignedOutHandler(() => seen.push('signed out'))
+    fakeServer({
+      'GET /api/auth/csrf': csrfIssuer(),
+      'GET /api/rooms': () => ({ status: 401, body: { error: { code: 'signed_out', message: 'Please sign in.' } } }),
+      'POST /api/auth/signin': () => ({ status: 401, body: { error: { code: 'bad_credentials', message: 'Wrong' } } }),
+    })
+    await expect(api.listRooms()).rejects.toMatchObject({ code: 'signed_out', status: 401 })
+    await expect(api.signIn({ email: 'a@b.test', password: 'x' })).rejects.toMatchObject({ code: 'bad_credentials' })
+    expect(seen).toEqual(['signed out'])
+  })
+})
