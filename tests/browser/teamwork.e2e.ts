@@ -136,11 +136,14 @@ describe('team work: invite, pins, snapshots', () => {
       const dialog = page.getByTestId('save-snapshot-dialog')
       await dialog.locator('input[name=snapshot-name]').fill(name)
       await page.getByTestId('save-snapshot').click()
+      const error = dialog.getByTestId('snapshot-error')
       const outcome = await Promise.race([
-        dialog.waitFor({ state: 'detached', timeout: 10_000 }).then(() => 'saved'),
-        dialog.getByText(/settl/).waitFor({ timeout: 10_000 }).then(() => 'settling'),
+        dialog.waitFor({ state: 'detached', timeout: 15_000 }).then(() => 'saved'),
+        error.waitFor({ timeout: 15_000 }).then(() => 'refused'),
       ])
       if (outcome === 'saved') return
+      const reason = (await error.textContent()) ?? ''
+      if (!/settl/i.test(reason)) throw new Error(`saving snapshot "${name}" was refused: ${reason}`)
       await page.keyboard.press('Escape')
       await page.waitForTimeout(2000)
     }
