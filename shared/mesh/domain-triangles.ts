@@ -16,32 +16,34 @@ export function domainTriangles(
 ): number[] {
   const nT = triangles.length / 3
   const parity = new Int8Array(nT).fill(-1)
-  const isSegment = (e: number): boolean => {
-    const p = triangles[e]!
-    const q = triangles[e % 3 === 2 ? e - 2 : e + 1]!
-    return nextOnLoop[p] === q || nextOnLoop[q] === p
-  }
-  const stack: number[] = []
+  const stack = new Int32Array(nT)
   for (let e = 0; e < triangles.length; e++) {
     if (halfedges[e] !== -1) continue
-    const t = Math.floor(e / 3)
+    const t = (e / 3) | 0
     if (parity[t] !== -1) continue
-    parity[t] = isSegment(e) ? 1 : 0
-    stack.push(t)
-    while (stack.length > 0) {
-      const u = stack.pop()!
-      for (let k = 0; k < 3; k++) {
-        const e2 = 3 * u + k
+    parity[t] = crossesLoop(triangles, nextOnLoop, e) ? 1 : 0
+    let top = 0
+    stack[top++] = t
+    while (top > 0) {
+      const u = stack[--top]!
+      for (let e2 = 3 * u; e2 < 3 * u + 3; e2++) {
         const o = halfedges[e2]!
         if (o === -1) continue
-        const w = Math.floor(o / 3)
+        const w = (o / 3) | 0
         if (parity[w] !== -1) continue
-        parity[w] = isSegment(e2) ? 1 - parity[u]! : parity[u]!
-        stack.push(w)
+        parity[w] = crossesLoop(triangles, nextOnLoop, e2) ? 1 - parity[u]! : parity[u]!
+        stack[top++] = w
       }
     }
   }
   const keep: number[] = []
   for (let t = 0; t < nT; t++) if (parity[t] === 1) keep.push(t)
   return keep
+}
+
+/** Is half-edge e a boundary segment (its two ends consecutive on a loop)? */
+function crossesLoop(triangles: Readonly<Uint32Array>, nextOnLoop: Readonly<Int32Array>, e: number): boolean {
+  const p = triangles[e]!
+  const q = triangles[e % 3 === 2 ? e - 2 : e + 1]!
+  return nextOnLoop[p] === q || nextOnLoop[q] === p
 }

@@ -169,7 +169,7 @@ function firstGuessHeights(
     }
     V[3 * v + 2] = sz / sw
   }
-  for (let s = 0; s < 6; s++) {
+  for (let s = 0; s < 2; s++) {
     for (let v = nB; v < nV; v++) {
       let z = 0
       const a = nb.start[v]!, e = nb.start[v + 1]!
