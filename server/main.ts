@@ -7,6 +7,7 @@ import { loadConfig, type Config } from './config.js'
 import { createDataSource } from './db/data-source.js'
 import { seedDemo } from './db/seed.js'
 import { logger, setLogLevel } from './lib/logger.js'
+import { attachRealtime, type Realtime } from './realtime/index.js'
 
 export interface StartOptions {
   /** 0 picks a free port (tests). Defaults to config.PORT. */
@@ -22,6 +23,8 @@ export interface Running extends AppBundle {
   config: Config
   port: number
   url: string
+  /** The live room: CRDT endpoint, surface stream, solve workers. */
+  realtime: Realtime
   stop: () => Promise<void>
 }
 
@@ -38,10 +41,16 @@ export async function start(options: StartOptions = {}): Promise<Running> {
   await dataSource.initialize()
   const ran = await dataSource.runMigrations({ transaction: 'each' })
   if (ran.length) logger.info('migrations applied', { names: ran.map((m) => m.name) })
-  if (options.seed) await seedDemo(dataSource, config.BCRYPT_COST)
+  const demoRooms = options.seed ? await seedDemo(dataSource, config.BCRYPT_COST) : null
 
   const bundle = createApp({ config, dataSource })
   const server = createServer(bundle.app)
+  const realtime = attachRealtime(server, { ...bundle, dataSource, config })
+  bundle.live.attach(realtime)
+  if (demoRooms) {
+    await realtime.ensureRoomFrame(demoRooms.courtyard, 'tent')
+    await realtime.ensureRoomFrame(demoRooms['shade-sail'], 'sail')
+  }
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject)
     server.listen(options.port ?? config.PORT, config.HOST, () => resolve())
@@ -56,7 +65,10 @@ export async function start(options: StartOptions = {}): Promise<Running> {
     config,
     port,
     url,
+    realtime,
     stop: async () => {
+      // Closes the live sockets and solve workers and stores every loaded room document.
+      await realtime.close()
       server.closeAllConnections()
       await new Promise<void>((resolve) => server.close(() => resolve()))
       await bundle.close()

@@ -10,7 +10,10 @@ import type { StarterKey } from '../../shared/room-doc/starters.js'
 import type { Config } from '../config.js'
 import { allowedOrigins } from './access.js'
 import { RoomDocs, type RoomDocsOptions } from './room-docs.js'
-import { createSolveLoop, type SolveLoop } from './solve-loop.js'
+import { readRawFrame } from '../../shared/room-doc/schema.js'
+import type { Frame } from '../../shared/types.js'
+import { validateRoomFrame } from './engine-link.js'
+import { createSolveLoop, type SettledSurface, type SolveLoop } from './solve-loop.js'
 import { SolvePool } from './solve-pool.js'
 import { attachSurfaceStream, type SurfaceStream } from './surface-stream.js'
 import { attachSyncEndpoint } from './sync-endpoint.js'
@@ -30,6 +33,14 @@ export interface Realtime {
   loop: SolveLoop
   /** Gives a room its starting frame if its document is empty (room creation, demo seed). */
   ensureRoomFrame: (roomId: string, starterKey: StarterKey) => Promise<boolean>
+  /** The room's current frame (null when the document holds an invalid one) and version; loads the room if needed. */
+  getRoomFrame: (roomId: string) => Promise<{ frame: Frame | null; version: number }>
+  /** The last settled fine surface; solves on demand (up to 60 s) when the room was not loaded. */
+  getLatestSurface: (roomId: string) => Promise<SettledSurface | null>
+  /** socket.io broadcast to everyone who joined the room. */
+  emitToRoom: (roomId: string, event: string, payload: unknown) => void
+  /** Closes sync sockets and disconnects socket.io sockets of a room and/or a user. */
+  closeRoomSockets: (roomId?: string, userId?: string) => void
   /** Closes sockets, stops the workers and stores every loaded room. */
   close: () => Promise<void>
 }
@@ -63,7 +74,9 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
 
   const rooms = new RoomDocs(deps.dataSource, tuning)
   const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
-  pool.warmUp()
+  // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
+  // server, not for each of the many short-lived test servers, which start workers on first use.
+  if (config.NODE_ENV !== 'test') pool.warmUp()
   // The loop emits through the stream, and the stream asks the loop for the latest surface.
   const ref: { stream?: SurfaceStream } = {}
   const loop = createSolveLoop({
@@ -81,6 +94,28 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
     rooms,
     loop,
     ensureRoomFrame: (roomId, starterKey) => rooms.ensureRoomFrame(roomId, starterKey),
+    getRoomFrame: async (roomId) => {
+      const room = await rooms.acquire(roomId)
+      try {
+        const checked = validateRoomFrame(readRawFrame(room.doc))
+        return { frame: checked.ok ? checked.frame : null, version: room.version }
+      } finally {
+        await rooms.release(room)
+      }
+    },
+    getLatestSurface: async (roomId) => {
+      const room = await rooms.acquire(roomId)
+      try {
+        return await loop.settledSurface(roomId, 60_000)
+      } finally {
+        await rooms.release(room)
+      }
+    },
+    emitToRoom: (roomId, event, payload) => stream.emit(roomId, event, payload),
+    closeRoomSockets: (roomId, userId) => {
+      sync.closeWhere(roomId, userId)
+      stream.closeWhere(roomId, userId)
+    },
     close: async () => {
       await sync.close()
       await stream.close()

@@ -11,6 +11,7 @@ import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
 import { validateRoomFrame } from './engine-link.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
+import type { SurfacePayload } from './solve-messages.js'
 import type { SolveHandle, SolvePool } from './solve-pool.js'
 
 /** Vertex count a coarse preview aims at. */
@@ -32,12 +33,26 @@ interface Watch {
   warmKey: string | null
   surface?: unknown
   state?: unknown
+  /** The last fine surface that converged. */
+  settled?: SettledSurface
+  /** Called after each surface or state sent (getLatestSurface waits on them). */
+  waiters: Set<() => void>
   onUpdate: () => void
+}
+
+/** The last settled (fine, converged) surface of a room. */
+export interface SettledSurface extends SurfacePayload {
+  version: number
 }
 
 export interface SolveLoop {
   /** What a client joining the room is sent first: the last surface and solve state. */
   latest: (roomId: string) => { event: string; payload: unknown }[]
+  /**
+   * The last settled surface of a loaded room, after waiting (up to `ms`) for the outcome of the
+   * solve of its current version; null when nothing ever settled.
+   */
+  settledSurface: (roomId: string, ms: number) => Promise<SettledSurface | null>
   close: () => void
 }
 
@@ -75,6 +90,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     if (event === 'surface') w.surface = full
     if (event === 'solve:state') w.state = full
     emit(w.room.roomId, event, full)
+    if (event !== 'solve:progress') for (const wake of w.waiters) wake()
   }
 
   const schedule = (w: Watch) => {
@@ -126,6 +142,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     send(w, 'surface', { version, stateVector, coarse, ...surface })
     if (!coarse) {
       w.warmKey = structureOf(frame)
+      if (surface.solver.converged) w.settled = { version, ...surface }
       const { converged, reason } = surface.solver
       send(w, 'solve:state', converged ? { version, state: 'settled' } : { version, state: 'unsettled', reason: reason ?? 'not-converged' })
     }
@@ -151,7 +168,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
   }
 
   const onLoaded = (room: LiveRoom) => {
-    const w: Watch = { room, running: null, dirty: false, scheduled: false, warmKey: null, onUpdate: () => schedule(w) }
+    const w: Watch = { room, running: null, dirty: false, scheduled: false, warmKey: null, waiters: new Set(), onUpdate: () => schedule(w) }
     watches.set(room.roomId, w)
     room.doc.on('update', w.onUpdate)
     schedule(w)
@@ -174,6 +191,26 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       if (w?.surface) out.push({ event: 'surface', payload: w.surface })
       if (w?.state) out.push({ event: 'solve:state', payload: w.state })
       return out
+    },
+    settledSurface: (roomId, ms) => {
+      const w = watches.get(roomId)
+      if (!w) return Promise.resolve(null)
+      const target = w.room.version
+      const decided = () => {
+        const s = w.state as { version?: number; state?: string } | undefined
+        return (w.settled?.version ?? -1) >= target || ((s?.version ?? -1) >= target && s?.state !== 'settling')
+      }
+      if (decided()) return Promise.resolve(w.settled ?? null)
+      return new Promise((resolve) => {
+        const done = () => {
+          clearTimeout(timer)
+          w.waiters.delete(check)
+          resolve(w.settled ?? null)
+        }
+        const check = () => decided() && done()
+        const timer = setTimeout(done, ms)
+        w.waiters.add(check)
+      })
     },
     close: () => {
       rooms.off('loaded', onLoaded)

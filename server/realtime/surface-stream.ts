@@ -23,6 +23,8 @@ export interface SurfaceStream {
   io: Server
   /** Sends an event to everyone who joined the room. */
   emit: (roomId: string, event: string, payload: unknown) => void
+  /** Disconnects the sockets of a room and/or a user (membership removed, signed out). */
+  closeWhere: (roomId?: string, userId?: string) => void
   close: () => Promise<void>
 }
 
@@ -96,6 +98,13 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
     io,
     emit: (roomId, event, payload) => {
       io.to(channel(roomId)).emit(event, payload)
+    },
+    closeWhere: (roomId, userId) => {
+      for (const socket of io.sockets.sockets.values()) {
+        const inRoom = roomId === undefined || socket.rooms.has(channel(roomId))
+        const isUser = userId === undefined || (socket.data.user as SessionUser | undefined)?.id === userId
+        if (inRoom && isUser) socket.disconnect(true)
+      }
     },
     close: async () => {
       io.disconnectSockets(true)

@@ -34,6 +34,8 @@ export interface SyncEndpointOptions {
 export interface SyncEndpoint {
   /** Open connections, for tests and the benchmark. */
   connections: () => number
+  /** Closes the sockets of a room and/or a user (membership removed, signed out); both optional. */
+  closeWhere: (roomId?: string, userId?: string) => void
   close: () => Promise<void>
 }
 
@@ -45,7 +47,7 @@ function refuse(socket: Duplex, status: number, reason: string): void {
 /** Attaches the endpoint to the server's 'upgrade' event; other paths are left to socket.io. */
 export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): SyncEndpoint {
   const wss = new WebSocketServer({ noServer: true, maxPayload: opts.maxPayload ?? 2 * 1024 * 1024 })
-  const live = new Set<WebSocket>()
+  const live = new Map<WebSocket, { roomId: string; userId: string }>()
   const alive = new WeakSet<WebSocket>()
 
   const accept = async (req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> => {
@@ -61,7 +63,7 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
     const room = await opts.rooms.acquire(roomId)
     if (socket.destroyed) return void opts.rooms.release(room)
     wss.handleUpgrade(req, socket, head, (ws) => {
-      live.add(ws)
+      live.set(ws, { roomId, userId: user.id })
       alive.add(ws)
       ws.on('pong', () => alive.add(ws))
       serve(ws, room, !canEditFrame(role))
@@ -85,7 +87,7 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
   // Sockets that did not answer the last ping are dropped, so a vanished laptop frees its room.
   const pingMs = opts.pingMs ?? 30_000
   const pinger = setInterval(() => {
-    for (const ws of live) {
+    for (const ws of live.keys()) {
       if (!alive.has(ws)) {
         ws.terminate()
         continue
@@ -98,10 +100,15 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
 
   return {
     connections: () => live.size,
+    closeWhere: (roomId, userId) => {
+      for (const [ws, who] of live) {
+        if ((roomId === undefined || who.roomId === roomId) && (userId === undefined || who.userId === userId)) ws.close(4403, 'access changed')
+      }
+    },
     close: async () => {
       server.off('upgrade', onUpgrade)
       clearInterval(pinger)
-      for (const ws of live) ws.terminate()
+      for (const ws of live.keys()) ws.terminate()
       await new Promise<void>((resolve) => wss.close(() => resolve()))
     },
   }
