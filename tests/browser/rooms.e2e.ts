@@ -56,7 +56,8 @@ describe('a new user signs up and looks after a room of their own', () => {
     await page.click('button[type=submit]')
     await page.getByTestId('room-page').waitFor()
     expect(await page.getByTestId('my-role').textContent()).toContain('Owner')
-    expect(await page.getByTestId('room-members').textContent()).toContain('Nia New (you)')
+    // The members list loads on its own; wait for it rather than reading it once.
+    await page.getByTestId('room-members').getByText('Nia New (you)').waitFor()
   })
 
   it('renames the room from the rooms table', async () => {

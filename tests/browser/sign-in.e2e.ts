@@ -72,6 +72,7 @@ describe('signing in as the demo editor', () => {
       expect(caution).toContain('preliminary')
       expect(caution).toContain('qualified engineer')
     }
+    await page.getByTestId('room-members').getByText(/\(you\)$/).waitFor()
     expect(await page.getByTestId('room-members').getByText('(you)').count()).toBe(1)
   })
 
