@@ -177,4 +177,19 @@ describe('team work: invite, pins, snapshots', () => {
     await page.getByTestId('distance-legend').waitFor()
     expect(await page.getByTestId('caution-note').textContent()).toContain('qualified engineer')
   })
+
+  it('prints a report of a snapshot with the surface rendered to an image and the cautions', async () => {
+    const { page } = owner
+    const a = new URL(page.url()).searchParams.get('a')
+    await page.goto(`${baseUrl()}/rooms/${roomId}/report?snapshot=${a}`)
+    const img = page.getByTestId('report-image')
+    await img.waitFor({ timeout: 20_000 })
+    expect(await img.getAttribute('src')).toMatch(/^data:image\/png;base64,/)
+    expect(await page.getByTestId('report-snapshot').textContent()).toBe('Sail before review')
+    expect(await page.getByTestId('report-figures').textContent()).toContain('Fabric area')
+    expect(await page.getByTestId('caution-note').textContent()).toContain('preliminary')
+    // Print CSS drops the app's top bar from the PDF.
+    await page.emulateMedia({ media: 'print' })
+    expect(await page.locator('header.top-bar').isVisible()).toBe(false)
+  })
 })
