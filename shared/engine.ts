@@ -5,44 +5,36 @@
  * Caution: form-finding is preliminary; loads, stresses, patterning, anchors and connections are
  * checked by a qualified engineer under local codes.
  */
-import { computeFigures } from "./figures";
-import {
-  frameNeedsParametricMesh,
-  frameNeedsSpatialSolve,
-  validateFrame,
-} from "./frame";
-import { meshFrame, meshParametric, remapMesh } from "./mesh";
-import {
-  frameConstraints,
-  frameStructureKey,
-  isotropicPrestress,
-} from "./solver/frame-problem";
-import { solveHeightField } from "./solver/height-field";
-import { solveSpatial, type SpatialSetup } from "./solver/spatial";
-import type { SpdSystem } from "./solver/spd-system";
-import type { Frame, MembraneMesh, SolverReport, SurfaceResult } from "./types";
+import { computeFigures } from './figures'
+import { frameNeedsParametricMesh, frameNeedsSpatialSolve, validateFrame } from './frame'
+import { meshFrame, meshParametric, remapMesh } from './mesh'
+import { frameConstraints, frameStructureKey, isotropicPrestress } from './solver/frame-problem'
+import { solveHeightField } from './solver/height-field'
+import { solveSpatial, type SpatialSetup } from './solver/spatial'
+import type { SpdSystem } from './solver/spd-system'
+import type { Frame, MembraneMesh, SolverReport, SurfaceResult } from './types'
 
 export interface EngineOptions {
   /** Called after every solver iteration with the dimensionless residual. */
-  onProgress?(iteration: number, residual: number): void;
+  onProgress?(iteration: number, residual: number): void
   /** Checked between iterations; when aborted the result is unsettled with reason 'cancelled'. */
-  signal?: { readonly aborted: boolean };
+  signal?: { readonly aborted: boolean }
   /** Dimensionless residual to reach (default 1e-10). */
-  tolerance?: number;
-  maxIterations?: number;
+  tolerance?: number
+  maxIterations?: number
 }
 
 export interface EngineResult {
   /** The frame's mesh with solved vertices (#V×3, m). */
-  mesh: MembraneMesh;
-  report: SolverReport;
+  mesh: MembraneMesh
+  report: SolverReport
 }
 
 export interface FormFinder {
   /** Solve `frame` (validated here: FrameError names the field); warm when only points moved. */
-  solve(frame: Readonly<Frame>, options?: EngineOptions): EngineResult;
+  solve(frame: Readonly<Frame>, options?: EngineOptions): EngineResult
   /** Forget the cached mesh, factorisations and solution. */
-  reset(): void;
+  reset(): void
 }
 
 /**
@@ -50,92 +42,75 @@ export interface FormFinder {
  * discrete height-field area is convex and always has a minimiser, even where the true membrane
  * turns vertical and overhangs (a mast ring raised past the graph limit).
  */
-const STEEP_SLOPE = Math.tan((75 * Math.PI) / 180);
+const STEEP_SLOPE = Math.tan((75 * Math.PI) / 180)
 
 interface Cache {
-  structureKey: string;
+  structureKey: string
   /** Meshed by meshParametric (rings over rings, or a two-loop frame too steep for a plan mesh). */
-  parametric: boolean;
+  parametric: boolean
   /** The mesh as meshed or remapped for the last frame (start positions, not solved). */
-  mesh: MembraneMesh;
+  mesh: MembraneMesh
   /** Last solved positions when they were settled, for warm starts. */
-  solved: Float64Array | undefined;
-  heightSystem?: SpdSystem;
-  spatial?: SpatialSetup;
+  solved: Float64Array | undefined
+  heightSystem?: SpdSystem
+  spatial?: SpatialSetup
 }
 
 /** A stateful form finder for one room (one frame edited over time). */
 export function createFormFinder(): FormFinder {
-  let cache: Cache | undefined;
+  let cache: Cache | undefined
   /** Meshes (warm when the cache allows) and solves; returns the new cache entry too. */
-  const attempt = (
-    frame: Frame,
-    structureKey: string,
-    parametric: boolean,
-    options: EngineOptions,
-  ) => {
-    let mesh: MembraneMesh | null = null;
-    const reusable =
-      cache &&
-      cache.structureKey === structureKey &&
-      cache.parametric === parametric
-        ? cache
-        : undefined;
+  const attempt = (frame: Frame, structureKey: string, parametric: boolean, options: EngineOptions) => {
+    let mesh: MembraneMesh | null = null
+    const reusable = cache && cache.structureKey === structureKey && cache.parametric === parametric ? cache : undefined
     if (reusable) {
-      mesh = parametric
-        ? meshParametric(frame).mesh
-        : remapMesh(reusable.mesh, frame);
-      if (mesh && mesh.topologyKey !== reusable.mesh.topologyKey) mesh = null;
+      mesh = parametric ? meshParametric(frame).mesh : remapMesh(reusable.mesh, frame)
+      if (mesh && mesh.topologyKey !== reusable.mesh.topologyKey) mesh = null
     }
-    const previous = mesh ? reusable : undefined;
-    mesh ??= parametric ? meshParametric(frame).mesh : meshFrame(frame);
-    const next: Cache = { structureKey, parametric, mesh, solved: undefined };
+    const previous = mesh ? reusable : undefined
+    mesh ??= parametric ? meshParametric(frame).mesh : meshFrame(frame)
+    const next: Cache = { structureKey, parametric, mesh, solved: undefined }
     if (previous)
       Object.assign(next, {
         heightSystem: previous.heightSystem,
         spatial: previous.spatial,
-      });
+      })
     // a steep two-loop frame is better re-meshed as an annulus than continued on its plan mesh
-    const remeshable = !parametric && frame.loops.length === 2;
+    const remeshable = !parametric && frame.loops.length === 2
     return {
       next,
       mesh,
       ...solveOnMesh(frame, mesh, next, previous?.solved, options, !remeshable),
-    };
-  };
+    }
+  }
   return {
     reset() {
-      cache = undefined;
+      cache = undefined
     },
     solve(input, options = {}) {
-      const frame = validateFrame(input as Frame);
-      const structureKey = frameStructureKey(frame);
-      const sticky = cache?.structureKey === structureKey && cache.parametric;
-      let outcome = attempt(
-        frame,
-        structureKey,
-        frameNeedsParametricMesh(frame) || sticky,
-        options,
-      );
-      if (outcome.steep) outcome = attempt(frame, structureKey, true, options);
-      const { next, mesh, vertices, report } = outcome;
-      const finite = vertices.every(Number.isFinite);
-      next.solved = finite && report.converged ? vertices : undefined;
-      cache = next;
+      const frame = validateFrame(input as Frame)
+      const structureKey = frameStructureKey(frame)
+      const sticky = cache?.structureKey === structureKey && cache.parametric
+      let outcome = attempt(frame, structureKey, frameNeedsParametricMesh(frame) || sticky, options)
+      if (outcome.steep) outcome = attempt(frame, structureKey, true, options)
+      const { next, mesh, vertices, report } = outcome
+      const finite = vertices.every(Number.isFinite)
+      next.solved = finite && report.converged ? vertices : undefined
+      cache = next
       if (!finite) {
         return {
           mesh,
           report: {
             ...report,
             converged: false,
-            reason: "diverged",
+            reason: 'diverged',
             residual: Number.MAX_VALUE,
           },
-        };
+        }
       }
-      return { mesh: { ...mesh, vertices }, report };
+      return { mesh: { ...mesh, vertices }, report }
     },
-  };
+  }
 }
 
 /**
@@ -150,15 +125,15 @@ function solveOnMesh(
   control: EngineOptions,
   continueSteep: boolean,
 ): { vertices: Float64Array; report: SolverReport; steep: boolean } {
-  const constraints = frameConstraints(mesh, frame);
-  const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame);
-  const start = Float64Array.from(mesh.vertices);
+  const constraints = frameConstraints(mesh, frame)
+  const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame)
+  const start = Float64Array.from(mesh.vertices)
   if (solved) {
     for (let v = 0; v < constraints.isFixed.length; v++) {
       // held vertices take the new frame; free ones resume where the last solution left them
-      if (constraints.isFixed[v]) continue;
-      if (spatialPath) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v);
-      else start[3 * v + 2] = solved[3 * v + 2]!;
+      if (constraints.isFixed[v]) continue
+      if (spatialPath) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v)
+      else start[3 * v + 2] = solved[3 * v + 2]!
     }
   }
   const spatial = (from: Float64Array, earlier?: SolverReport) => {
@@ -167,9 +142,9 @@ function solveOnMesh(
       triangles: mesh.triangles,
       ...constraints,
       prestress: isotropicPrestress(frame),
-    };
-    const result = solveSpatial(problem, control, cache.spatial);
-    cache.spatial = result.setup;
+    }
+    const result = solveSpatial(problem, control, cache.spatial)
+    cache.spatial = result.setup
     const report = earlier
       ? {
           ...result.report,
@@ -177,70 +152,40 @@ function solveOnMesh(
           iterations: earlier.iterations + result.report.iterations,
           ms: earlier.ms + result.report.ms,
         }
-      : result.report;
-    return { vertices: result.vertices, report, steep: false };
-  };
-  if (spatialPath) return spatial(start);
-  const previous =
-    solved &&
-    Float64Array.from(
-      { length: solved.length / 3 },
-      (_, v) => solved[3 * v + 2]!,
-    );
+      : result.report
+    return { vertices: result.vertices, report, steep: false }
+  }
+  if (spatialPath) return spatial(start)
+  const previous = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
   const problem = {
     vertices: start,
     triangles: mesh.triangles,
     isFixed: constraints.isFixed,
-  };
-  const result = solveHeightField(
-    problem,
-    control,
-    solved !== undefined,
-    cache.heightSystem,
-    previous,
-  );
-  cache.heightSystem = result.system;
-  const vertices = Float64Array.from(start);
-  for (let v = 0; v < result.heights.length; v++)
-    vertices[3 * v + 2] = result.heights[v]!;
-  const steep = result.steepest > STEEP_SLOPE;
-  if (
-    (result.report.converged && !steep) ||
-    result.report.reason === "cancelled"
-  )
-    return { vertices, report: result.report, steep: false };
-  if (steep && !continueSteep)
-    return { vertices, report: result.report, steep: true };
+  }
+  const result = solveHeightField(problem, control, solved !== undefined, cache.heightSystem, previous)
+  cache.heightSystem = result.system
+  const vertices = Float64Array.from(start)
+  for (let v = 0; v < result.heights.length; v++) vertices[3 * v + 2] = result.heights[v]!
+  const steep = result.steepest > STEEP_SLOPE
+  if ((result.report.converged && !steep) || result.report.reason === 'cancelled')
+    return { vertices, report: result.report, steep: false }
+  if (steep && !continueSteep) return { vertices, report: result.report, steep: true }
   // the surface turns (nearly) vertical and may overhang, or Newton failed: continue in 3D
-  return spatial(
-    vertices.every(Number.isFinite) ? vertices : start,
-    result.report,
-  );
+  return spatial(vertices.every(Number.isFinite) ? vertices : start, result.report)
 }
 
 /**
  * One-shot solve with figures, in the "Surface result" shape of PRODUCT.md (plain arrays, JSON-safe).
  * Throws FrameError (with the field) for an invalid frame; MeshError when the frame cannot be meshed.
  */
-export function solveFrame(
-  frame: Readonly<Frame>,
-  options: EngineOptions = {},
-): SurfaceResult {
-  const { mesh, report } = createFormFinder().solve(frame, options);
-  const figures = computeFigures(mesh, frame, { residual: report.residual });
-  const vertices: [number, number, number][] = [];
+export function solveFrame(frame: Readonly<Frame>, options: EngineOptions = {}): SurfaceResult {
+  const { mesh, report } = createFormFinder().solve(frame, options)
+  const figures = computeFigures(mesh, frame, { residual: report.residual })
+  const vertices: [number, number, number][] = []
   for (let v = 0; v < mesh.vertices.length; v += 3)
-    vertices.push([
-      mesh.vertices[v]!,
-      mesh.vertices[v + 1]!,
-      mesh.vertices[v + 2]!,
-    ]);
-  const triangles: [number, number, number][] = [];
+    vertices.push([mesh.vertices[v]!, mesh.vertices[v + 1]!, mesh.vertices[v + 2]!])
+  const triangles: [number, number, number][] = []
   for (let t = 0; t < mesh.triangles.length; t += 3)
-    triangles.push([
-      mesh.triangles[t]!,
-      mesh.triangles[t + 1]!,
-      mesh.triangles[t + 2]!,
-    ]);
-  return { vertices, triangles, figures, solver: report };
+    triangles.push([mesh.triangles[t]!, mesh.triangles[t + 1]!, mesh.triangles[t + 2]!])
+  return { vertices, triangles, figures, solver: report }
 }

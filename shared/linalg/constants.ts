@@ -3,4 +3,4 @@
  * Dimensionless: used relative to a scale (a pivot against the largest diagonal entry, an area
  * against the mean face area), never as an absolute length.
  */
-export const EPSILON = 1e-12;
+export const EPSILON = 1e-12

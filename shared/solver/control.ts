@@ -1,19 +1,19 @@
-import type { SolverReport } from "../types";
+import type { SolverReport } from '../types'
 
 /** How a caller steers and watches a solve. */
 export interface SolveControl {
   /** Called after every iteration with the dimensionless residual. */
-  onProgress?: (iteration: number, residual: number) => void;
+  onProgress?: (iteration: number, residual: number) => void
   /** Checked between iterations; when aborted the solve stops with reason 'cancelled'. */
-  signal?: { readonly aborted: boolean };
+  signal?: { readonly aborted: boolean }
   /** Converged when the dimensionless residual is at most this (default 1e-10). */
-  tolerance?: number;
-  maxIterations?: number;
+  tolerance?: number
+  maxIterations?: number
 }
 
 /** Milliseconds since an arbitrary origin (performance.now exists in browsers, workers and Node). */
 export function now(): number {
-  return globalThis.performance.now();
+  return globalThis.performance.now()
 }
 
 /** A report with `ms` measured from `start`. */
@@ -24,7 +24,7 @@ export function report(
   residual: number,
   reason?: string,
 ): SolverReport {
-  const converged = reason === undefined;
+  const converged = reason === undefined
   return {
     method,
     iterations,
@@ -32,5 +32,5 @@ export function report(
     converged,
     ...(converged ? {} : { reason }),
     ms: now() - start,
-  };
+  }
 }

@@ -1,4 +1,4 @@
-import type { TrianglePattern } from "../linalg/triangle-pattern";
+import type { TrianglePattern } from '../linalg/triangle-pattern'
 
 /**
  * Per-corner cotan weights and areas of a 3D triangle mesh.
@@ -11,33 +11,33 @@ export function cornerCotanWeights(
   vertices: Readonly<Float64Array>,
   triangles: Readonly<Uint32Array>,
 ): number {
-  let smallest = Infinity;
+  let smallest = Infinity
   for (let t = 0; t < triangles.length; t += 3) {
     const a = 3 * triangles[t]!,
       b = 3 * triangles[t + 1]!,
-      c = 3 * triangles[t + 2]!;
+      c = 3 * triangles[t + 2]!
     const abx = vertices[b]! - vertices[a]!,
       aby = vertices[b + 1]! - vertices[a + 1]!,
-      abz = vertices[b + 2]! - vertices[a + 2]!;
+      abz = vertices[b + 2]! - vertices[a + 2]!
     const acx = vertices[c]! - vertices[a]!,
       acy = vertices[c + 1]! - vertices[a + 1]!,
-      acz = vertices[c + 2]! - vertices[a + 2]!;
+      acz = vertices[c + 2]! - vertices[a + 2]!
     const bcx = vertices[c]! - vertices[b]!,
       bcy = vertices[c + 1]! - vertices[b + 1]!,
-      bcz = vertices[c + 2]! - vertices[b + 2]!;
+      bcz = vertices[c + 2]! - vertices[b + 2]!
     const nx = aby * acz - abz * acy,
       ny = abz * acx - abx * acz,
-      nz = abx * acy - aby * acx;
-    const twiceArea = Math.sqrt(nx * nx + ny * ny + nz * nz);
-    faceAreasOut[t / 3] = twiceArea / 2;
-    smallest = Math.min(smallest, twiceArea / 2);
+      nz = abx * acy - aby * acx
+    const twiceArea = Math.sqrt(nx * nx + ny * ny + nz * nz)
+    faceAreasOut[t / 3] = twiceArea / 2
+    smallest = Math.min(smallest, twiceArea / 2)
     // cot θ = (e1·e2)/|e1×e2|, and |e1×e2| is twice the area at every corner
-    const s = twiceArea > 0 ? 0.5 / twiceArea : 0;
-    out[t] = s * (abx * acx + aby * acy + abz * acz);
-    out[t + 1] = -s * (abx * bcx + aby * bcy + abz * bcz);
-    out[t + 2] = s * (acx * bcx + acy * bcy + acz * bcz);
+    const s = twiceArea > 0 ? 0.5 / twiceArea : 0
+    out[t] = s * (abx * acx + aby * acy + abz * acz)
+    out[t + 1] = -s * (abx * bcx + aby * bcy + abz * bcz)
+    out[t + 2] = s * (acx * bcx + acy * bcy + acz * bcz)
   }
-  return smallest;
+  return smallest
 }
 
 /**
@@ -53,32 +53,30 @@ export function assembleCotanLaplacian(
   vertices: Readonly<Float64Array>,
   triangles: Readonly<Uint32Array>,
 ): void {
-  const values = pattern.matrix.values;
-  const { freeIndex, triangleSlots } = pattern;
-  values.fill(0);
-  rhs.fill(0);
+  const values = pattern.matrix.values
+  const { freeIndex, triangleSlots } = pattern
+  values.fill(0)
+  rhs.fill(0)
   for (let t = 0; t < triangles.length; t += 3) {
     for (let k = 0; k < 3; k++) {
       // corner k weighs the edge (i, j) opposite to it
-      const w = sigma * weights[t + k]!;
+      const w = sigma * weights[t + k]!
       const a = (k + 1) % 3,
-        b = (k + 2) % 3;
+        b = (k + 2) % 3
       const i = triangles[t + a]!,
-        j = triangles[t + b]!;
+        j = triangles[t + b]!
       const fi = freeIndex[i]!,
-        fj = freeIndex[j]!;
-      const base = 3 * t; // 9 slots per triangle, t steps by 3
-      if (fi >= 0) values[triangleSlots[base + 4 * a]!]! += w;
-      if (fj >= 0) values[triangleSlots[base + 4 * b]!]! += w;
+        fj = freeIndex[j]!
+      const base = 3 * t // 9 slots per triangle, t steps by 3
+      if (fi >= 0) values[triangleSlots[base + 4 * a]!]! += w
+      if (fj >= 0) values[triangleSlots[base + 4 * b]!]! += w
       if (fi >= 0 && fj >= 0) {
-        values[triangleSlots[base + 3 * a + b]!]! -= w;
-        values[triangleSlots[base + 3 * b + a]!]! -= w;
+        values[triangleSlots[base + 3 * a + b]!]! -= w
+        values[triangleSlots[base + 3 * b + a]!]! -= w
       } else if (fi >= 0) {
-        for (let d = 0; d < 3; d++)
-          rhs[3 * fi + d]! += w * vertices[3 * j + d]!;
+        for (let d = 0; d < 3; d++) rhs[3 * fi + d]! += w * vertices[3 * j + d]!
       } else if (fj >= 0) {
-        for (let d = 0; d < 3; d++)
-          rhs[3 * fj + d]! += w * vertices[3 * i + d]!;
+        for (let d = 0; d < 3; d++) rhs[3 * fj + d]! += w * vertices[3 * i + d]!
       }
     }
   }

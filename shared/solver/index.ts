@@ -1,9 +1,4 @@
-export {
-  solveHeightField,
-  HEIGHT_FIELD_METHOD,
-  type HeightFieldProblem,
-  type HeightFieldResult,
-} from "./height-field";
+export { solveHeightField, HEIGHT_FIELD_METHOD, type HeightFieldProblem, type HeightFieldResult } from './height-field'
 export {
   solveSpatial,
   spatialSetup,
@@ -11,12 +6,7 @@ export {
   type SpatialProblem,
   type SpatialResult,
   type SpatialSetup,
-} from "./spatial";
-export {
-  frameConstraints,
-  isotropicPrestress,
-  frameStructureKey,
-  type FrameConstraints,
-} from "./frame-problem";
-export { SpdSystem } from "./spd-system";
-export type { SolveControl } from "./control";
+} from './spatial'
+export { frameConstraints, isotropicPrestress, frameStructureKey, type FrameConstraints } from './frame-problem'
+export { SpdSystem } from './spd-system'
+export type { SolveControl } from './control'
