@@ -63,7 +63,7 @@ describe('dev mailbox route', () => {
     try {
       const res = await fetch(`http://127.0.0.1:${(server.address() as AddressInfo).port}/api/dev/mailbox`)
       expect(res.status).toBe(404)
-      expect((await res.json()).error.code).toBe('not_found')
+      expect(((await res.json()) as { error: { code: string } }).error.code).toBe('not_found')
     } finally {
       server.close()
     }
