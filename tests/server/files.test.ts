@@ -131,6 +131,11 @@ describe('underlay image', () => {
     expect(wrong.status).toBe(400)
     expect(wrong.body.error).toMatchObject({ code: 'invalid_image', field: 'image' })
 
+    // Just under the limit is stored whole (MariaDB's max_allowed_packet must allow it).
+    const nearLimit = Buffer.concat([tinyPng(), Buffer.alloc(4 * 1024 * 1024 - 200, 0x20)])
+    expect((await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(nearLimit))).status).toBe(200)
+    expect((await download(cast.clients.viewer, `${room()}/underlay`)).bytes.equals(nearLimit)).toBe(true)
+
     const huge = Buffer.concat([tinyPng(), Buffer.alloc(4 * 1024 * 1024)])
     const big = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(huge))
     expect(big.status).toBe(413)
