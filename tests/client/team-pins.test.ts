@@ -53,3 +53,31 @@ describe('pin filters', () => {
     expect(isPinAuthor(pins[0]!, undefined)).toBe(false)
   })
 })
+
+describe('pins store live events', () => {
+  // Event names and payloads from notes/protocol.md "Server-side accessors":
+  // pin:changed { roomId, pin } and pin:deleted { roomId, pinId }.
+  it('merges pin:changed and drops pin:deleted for its own room only', async () => {
+    const { createPinia, setActivePinia } = await import('pinia')
+    const { usePinsStore } = await import('../../src/stores/pins')
+    setActivePinia(createPinia())
+    const store = usePinsStore()
+    store.roomId = 'room-1'
+    const listeners = new Map<string, (p: unknown) => void>()
+    const source = { on: (e: string, f: (p: unknown) => void) => listeners.set(e, f), off: (e: string) => listeners.delete(e) }
+    const stop = store.listen(source)
+    const changed = listeners.get('pin:changed')!
+    changed({ roomId: 'room-1', pin: pins[0] })
+    changed({ roomId: 'room-2', pin: pins[1] })
+    changed({ roomId: 'room-1', pin: { ...pins[2], x: 'not a number' } })
+    expect(ids(store.pins)).toEqual(['a'])
+    store.selectedId = 'a'
+    listeners.get('pin:deleted')!({ roomId: 'room-2', pinId: 'a' })
+    expect(ids(store.pins)).toEqual(['a'])
+    listeners.get('pin:deleted')!({ roomId: 'room-1', pinId: 'a' })
+    expect(store.pins).toEqual([])
+    expect(store.selectedId).toBeNull()
+    stop()
+    expect(listeners.size).toBe(0)
+  })
+})
