@@ -6,12 +6,18 @@ import { resolve } from 'node:path'
 export const root = resolve(import.meta.dirname, '..')
 const bin = (name) => resolve(root, 'node_modules/.bin', name)
 
+const running = new Set()
+
 /** Runs a command from node_modules/.bin (or PATH) with inherited output; resolves to its exit code. */
 export function run(cmd, args, { env = process.env, quiet = false } = {}) {
   const file = existsSync(bin(cmd)) ? bin(cmd) : cmd
   return new Promise((resolvePromise) => {
     const child = spawn(file, args, { cwd: root, env, stdio: quiet ? 'ignore' : 'inherit' })
-    child.on('exit', (code, signal) => resolvePromise(code ?? (signal ? 1 : 0)))
+    running.add(child)
+    child.on('exit', (code, signal) => {
+      running.delete(child)
+      resolvePromise(code ?? (signal ? 1 : 0))
+    })
     child.on('error', (err) => {
       console.error(`[run] ${cmd}: ${err.message}`)
       resolvePromise(1)
@@ -89,3 +95,6 @@ export function stopChild(child) {
     child.kill('SIGTERM')
   })
 }
+
+/** Stops every command still running from run() (on Ctrl-C or a CI timeout). */
+export const stopRunning = () => Promise.all([...running].map(stopChild))

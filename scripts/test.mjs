@@ -5,7 +5,7 @@
 import { existsSync, readdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
-import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild } from './helpers.mjs'
+import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild, stopRunning } from './helpers.mjs'
 import { startFakeSmtpChild } from '../server/mail/fake-smtp-child.mjs'
 
 // `npm test -- --browser` runs only the browser tests (with the database and server they need).
@@ -52,6 +52,24 @@ const env = {
 
 let server = null
 let smtp = null
+let cleaning = null
+/** Stops children, drops the database, maybe stops MariaDB; one shared promise so both exits wait. */
+function cleanUp() {
+  cleaning ??= (async () => {
+    await stopRunning()
+    await stopChild(server?.child)
+    await stopChild(smtp?.child)
+    await dropDatabase(db).catch((err) => console.error(`[db] could not drop ${db.database}: ${err.message}`))
+    // Another engineer's run may share this instance: stop it only when no test database is left.
+    const others = await rootSql(db.port, "SHOW DATABASES LIKE 'veilroom\\_test\\_%'").catch(() => '')
+    if (instance.started && !others.trim()) await stopDb(db)
+  })()
+  return cleaning
+}
+// Ctrl-C or a CI timeout still stops the children and drops the throwaway database.
+for (const signal of ['SIGINT', 'SIGTERM']) {
+  process.once(signal, () => cleanUp().finally(() => process.exit(130)))
+}
 try {
   const migrated = await stage('migrate + demo seed (test database)', () => run('tsx', ['scripts/migrate.ts', '--seed'], { env }))
   if (migrated === 0) {
@@ -72,12 +90,7 @@ try {
     }
   }
 } finally {
-  await stopChild(server?.child)
-  await stopChild(smtp?.child)
-  await dropDatabase(db).catch((err) => console.error(`[db] could not drop ${db.database}: ${err.message}`))
-  // Another engineer's run may share this instance: stop it only when no test database is left.
-  const others = await rootSql(db.port, "SHOW DATABASES LIKE 'veilroom\\_test\\_%'").catch(() => '')
-  if (instance.started && !others.trim()) await stopDb(db)
+  await cleanUp()
 }
 
 console.log('\n=== summary')
