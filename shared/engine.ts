@@ -92,7 +92,17 @@ export function createFormFinder(): FormFinder {
       const structureKey = frameStructureKey(frame)
       const sticky = cache?.structureKey === structureKey && cache.parametric
       let outcome = attempt(frame, structureKey, frameNeedsParametricMesh(frame) || sticky, options)
-      if (outcome.steep) outcome = attempt(frame, structureKey, true, options)
+      if (outcome.steep) {
+        const first = outcome.report
+        outcome = attempt(frame, structureKey, true, options)
+        const { method, iterations, ms } = outcome.report
+        outcome.report = {
+          ...outcome.report,
+          method: `${first.method}+${method}`,
+          iterations: first.iterations + iterations,
+          ms: first.ms + ms,
+        }
+      }
       const { next, mesh, vertices, report } = outcome
       const finite = vertices.every(Number.isFinite)
       next.solved = finite && report.converged ? vertices : undefined
