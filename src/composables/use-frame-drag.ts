@@ -26,12 +26,22 @@ interface Drag {
   moved: boolean
 }
 
+/** A press and release closer than this (px) is a click, not an orbit or pan. */
+const CLICK_SLOP_PX = 4
+
+export interface FrameDragOptions {
+  /** A click that hit no handle and moved no camera (for pins and surface picks). */
+  onClick?(ev: PointerEvent): void
+  onDoubleClick?(): void
+}
+
 /** Wires pointer and key events of the viewport canvas to frame edits. */
-export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
+export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: FrameDragOptions = {}) {
   const store = useWorkbenchStore()
   /** True while the next click places a hole ring. */
   const placingHole = ref(false)
   let drag: Drag | null = null
+  let press: { x: number; y: number } | null = null
   let queued: { x?: number; y?: number; z?: number } | null = null
   let frameRequest = 0
 
@@ -54,6 +64,7 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
     vp.canvas.focus()
     if (placingHole.value) return placeHole(vp, ev)
     const hit = pickPoint(vp, ev)
+    press = hit ? null : { x: ev.clientX, y: ev.clientY }
     if (!hit) return
     store.select({ loopId: hit.loopId, pointId: hit.point.id })
     if (store.readOnly) return
@@ -82,6 +93,8 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
 
   function onPointerUp(ev: PointerEvent): void {
     const vp = viewport.value
+    if (press && ev.type === 'pointerup' && Math.hypot(ev.clientX - press.x, ev.clientY - press.y) < CLICK_SLOP_PX) options.onClick?.(ev)
+    press = null
     if (!drag || !vp) return
     if (frameRequest) cancelAnimationFrame(frameRequest)
     flush()
@@ -92,6 +105,7 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>) {
   }
 
   function onDoubleClick(ev: MouseEvent): void {
+    options.onDoubleClick?.()
     const vp = viewport.value
     if (!vp || store.readOnly || pickPoint(vp, ev)) return
     const { segments } = frameLines(store.frame)

@@ -73,11 +73,12 @@ export function useFrameDrawing(viewport: ShallowRef<Viewport | null>, source: F
     group.add(new THREE.LineSegments(rigid, new THREE.LineBasicMaterial({ color: COLOURS.rigid })))
     const cable = new THREE.BufferGeometry()
     cable.setAttribute('position', new THREE.BufferAttribute(lines.cable, 3))
-    const dashed = new THREE.LineSegments(cable, new THREE.LineDashedMaterial({ color: COLOURS.cable, dashSize: 0.25, gapSize: 0.15 }))
+    const r = handleRadius(view)
+    // dashes scale with the frame like the handles, so a cable reads as dashed at any size
+    const dashed = new THREE.LineSegments(cable, new THREE.LineDashedMaterial({ color: COLOURS.cable, dashSize: 3 * r, gapSize: 2 * r }))
     dashed.computeLineDistances()
     group.add(dashed)
 
-    const r = handleRadius(view)
     const sel = source.selection()
     const held = new Map(source.peers().filter((p) => p.held).map((p) => [`${p.held!.loopId}/${p.held!.pointId}`, p.color]))
     for (const { loopId, point } of framePoints(view)) {

@@ -9,9 +9,10 @@ import * as THREE from 'three'
 import { surfaceColours, type ColourMode, type ColourRange } from '../components/workbench/colour-maps'
 import type { SurfaceData } from '../stores/workbench'
 import type { Viewport } from './use-viewport'
+import { DEFAULT_FLAT_THRESHOLD } from '../../shared/figures/compute-figures'
 
-/** Flat threshold (degrees) when the figures do not carry one; 5° is a recalled common-practice minimum fall. */
-export const DEFAULT_FLAT_THRESHOLD = 5
+// The engine's own default, so the map and the flat-share figure agree before figures arrive.
+export { DEFAULT_FLAT_THRESHOLD }
 
 export interface SurfaceSource {
   surface(): SurfaceData | null

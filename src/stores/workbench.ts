@@ -7,6 +7,7 @@ import {
   CAPTURE_TIMEOUT_MS, includesClock, openRoomDocument, ownClock, trackPeers,
   type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,
 } from '../api/collaboration'
+import type { Socket } from 'socket.io-client'
 import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
 import type { RoomRole } from '../api/schemas'
 import { canEditFrame } from '../lib/roles'
@@ -66,6 +67,8 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     surface.value ? includesClock(surface.value.stateVector, clientId.value, lastOwnClock.value) : false,
   )
 
+  /** The surface stream's socket, for other live features (pins) to listen on one connection. */
+  const socket = shallowRef<Socket | null>(null)
   let collab: Collaboration | null = null
   let stream: SurfaceStream | null = null
   let cleanups: (() => void)[] = []
@@ -113,6 +116,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
       },
     })
     stream = s
+    socket.value = s.socket
   }
 
   async function join(s: SurfaceStream, id: string): Promise<void> {
@@ -134,6 +138,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     stream?.close()
     collab?.destroy()
     stream = null
+    socket.value = null
     collab = null
     roomId.value = null
     frame.value = emptyFrame()
@@ -216,7 +221,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
 
   return {
     roomId, role, readOnly, frame, rows, selection, surface, figures, status, sync, synced, streamError,
-    colourMode, viewMode, snapOn, snapStep, peers, canUndo, canRedo, surfaceIncludesMine,
+    colourMode, viewMode, snapOn, snapStep, peers, canUndo, canRedo, surfaceIncludesMine, socket,
     open, close, move, insertAfter, removePoint, setEdge, addHole, removeHole, setSettings,
     stopCapturing, beginGesture, endGesture, undo, redo, select,
   }
