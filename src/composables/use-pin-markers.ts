@@ -4,9 +4,10 @@
  * larger. Markers follow the pins store. `pick` tells which marker is under a pointer, so the
  * workbench can open that pin's thread instead of starting a new pin.
  */
-import { getCurrentScope, onScopeDispose, watch } from 'vue'
+import { effectScope, getCurrentScope, onScopeDispose, watch, type Ref } from 'vue'
 import * as THREE from 'three'
 import type { Pin } from '../api/team'
+import type { Viewport } from './use-viewport'
 import { usePinsStore } from '../stores/pins'
 
 export const PIN_COLOURS = { open: '#9c3f2c', resolved: '#8fa3a6', selected: '#d8862f' } as const
@@ -89,4 +90,48 @@ export function usePinMarkers(scene: THREE.Scene, camera: THREE.Camera | (() => 
   }
   if (getCurrentScope()) onScopeDispose(teardown)
   return { pick, pickEvent, redraw, dispose: teardown }
+}
+
+/**
+ * Pin markers on the workbench viewport (use-viewport.ts) once it exists: a click (not a drag) on a
+ * marker selects that pin in the pins panel. `markerAt` lets the viewport's own click handler skip
+ * starting a new pin when the click was on a marker.
+ */
+export function usePinMarkersIn(viewport: Ref<Viewport | null>, options: Omit<PinMarkerOptions, 'requestRender'> = {}) {
+  const store = usePinsStore()
+  let current: { scope: ReturnType<typeof effectScope>; markers: ReturnType<typeof usePinMarkers>; off: () => void } | null = null
+
+  function detach(): void {
+    current?.off()
+    current?.scope.stop()
+    current = null
+  }
+
+  const stop = watch(viewport, (vp) => {
+    detach()
+    if (!vp) return
+    const scope = effectScope()
+    const markers = scope.run(() => usePinMarkers(vp.scene, () => vp.camera(), { ...options, requestRender: vp.requestRender }))!
+    let down: { x: number; y: number } | null = null
+    const onDown = (e: PointerEvent): void => void (down = { x: e.clientX, y: e.clientY })
+    const onUp = (e: PointerEvent): void => {
+      // Orbiting the camera ends with a pointerup too: only a still click selects.
+      if (!down || Math.hypot(e.clientX - down.x, e.clientY - down.y) > 4) return
+      const id = markers.pickEvent(e, vp.canvas)
+      if (id) store.selectedId = id
+    }
+    vp.canvas.addEventListener('pointerdown', onDown)
+    vp.canvas.addEventListener('pointerup', onUp)
+    const off = (): void => {
+      vp.canvas.removeEventListener('pointerdown', onDown)
+      vp.canvas.removeEventListener('pointerup', onUp)
+    }
+    current = { scope, markers, off }
+  }, { immediate: true })
+
+  if (getCurrentScope()) onScopeDispose(() => (stop(), detach()))
+  return {
+    /** The pin id under a pointer event on the viewport's canvas, or null. */
+    markerAt: (ev: { clientX: number; clientY: number }): string | null => (current && viewport.value ? current.markers.pickEvent(ev, viewport.value.canvas) : null),
+  }
 }
