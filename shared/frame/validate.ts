@@ -7,7 +7,6 @@
  * loops; it is meshed with meshParametric and solved on the 3D path (frameNeedsSpatialSolve).
  */
 import type { Frame } from '../types'
-import { EPSILON } from '../mesh/constants'
 import { loopSignedArea, pointSegmentDistance, segmentsTouch } from '../mesh/plan-geometry'
 import { FrameError } from './frame-error'
 import { frameSpan, loopPlan, loopsApartInHeight, loopsTouch, loopStrictlyInside } from './loop-relations'
@@ -108,7 +107,7 @@ function checkLoopShape(xy: Float64Array, l: number, tol: number): void {
       if (bad) throw new FrameError('self-crossing', `edge ${i} crosses or touches edge ${j} of the same loop`, `loops[${l}].edges[${i}]`)
     }
   }
-  if (Math.abs(loopSignedArea(xy)) <= tol * tol + EPSILON) {
+  if (Math.abs(loopSignedArea(xy)) <= tol * tol) {
     throw new FrameError('degenerate-loop', 'encloses no plan area (all points on a line)', `loops[${l}].points`)
   }
 }

@@ -2,8 +2,6 @@
  * Plan (xy) geometry of frame loops: signed areas, point-in-loop, segment crossings.
  * Loops are given as flat #n×2 arrays of plan coordinates in metres, closed implicitly.
  */
-import { EPSILON } from './constants'
-
 /** Signed plan area of a closed loop (shoelace), m²: positive when counter-clockwise. */
 export function loopSignedArea(xy: Readonly<ArrayLike<number>>): number {
   const n = xy.length / 2
@@ -41,11 +39,12 @@ export function segmentsTouch(
   tol: number,
 ): boolean {
   const lp = Math.hypot(p2x - p1x, p2y - p1y)
+  // Signed distances to the other segment's line; a zero-length segment gives 0 (orient is 0 too).
   const lq = Math.hypot(q2x - q1x, q2y - q1y)
-  const d1 = orient(q1x, q1y, q2x, q2y, p1x, p1y) / Math.max(lq, EPSILON)
-  const d2 = orient(q1x, q1y, q2x, q2y, p2x, p2y) / Math.max(lq, EPSILON)
-  const d3 = orient(p1x, p1y, p2x, p2y, q1x, q1y) / Math.max(lp, EPSILON)
-  const d4 = orient(p1x, p1y, p2x, p2y, q2x, q2y) / Math.max(lp, EPSILON)
+  const d1 = orient(q1x, q1y, q2x, q2y, p1x, p1y) / (lq || 1)
+  const d2 = orient(q1x, q1y, q2x, q2y, p2x, p2y) / (lq || 1)
+  const d3 = orient(p1x, p1y, p2x, p2y, q1x, q1y) / (lp || 1)
+  const d4 = orient(p1x, p1y, p2x, p2y, q2x, q2y) / (lp || 1)
   if (((d1 > tol && d2 < -tol) || (d1 < -tol && d2 > tol)) && ((d3 > tol && d4 < -tol) || (d3 < -tol && d4 > tol))) {
     return true
   }
