@@ -3,69 +3,144 @@
  * through the real server (MariaDB, y-websocket endpoint, socket.io stream, solve workers).
  * Prints p50/p99 of edit → peer update (the edit reaches another editor's document) and edit → peer
  * surface (the first streamed surface whose state vector includes the edit), for 2, 10 and 30
- * editors in one room and spread over several rooms, at about 2k and 20k mesh vertices.
- * Writes bench-results/live.json. Clients run in this same process, so their work competes with the
- * server's main thread: the figures are an upper bound for one machine.
+ * editors in one room and spread over several rooms, at about 2k and 20k mesh vertices, and the
+ * server's event-loop delay. Writes bench-results/live.json.
+ *
+ * The server runs in this process; the simulated editors run in a child process (this same file
+ * with --clients) so that their yjs work does not land on the server's event loop. Both share the
+ * machine's cores with MariaDB and the solve workers.
+ * Env: BENCH_SECONDS (6), BENCH_SIZES ("2000,20000"), BENCH_SCENARIOS ("2:1,10:1,30:1,10:5,30:10"
+ * as editors:rooms), SOLVE_WORKERS.
  */
+import { spawn } from 'node:child_process'
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
-import * as Y from 'yjs'
-
-interface DbScript {
-  startDb: () => Promise<{ port: number }>
-  createDatabase: (o: Record<string, unknown>) => Promise<void>
-  dropDatabase: (o: { port: number; database: string }) => Promise<void>
-  dbDefaults: Record<string, unknown>
-}
-// Plain-JS helper without type declarations; the specifier is a value so tsc does not look for them.
-const dbScript = './db.mjs'
-const { createDatabase, dbDefaults, dropDatabase, startDb } = (await import(dbScript)) as DbScript
+import { monitorEventLoopDelay } from 'node:perf_hooks'
 
 const root = resolve(import.meta.dirname, '..')
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 6)
 /** Each editor drags at this rate (a pointer-move stream throttled by the client). */
 const EDITS_PER_SECOND = 5
-const SIZES = [
-  { label: '~2k', vertices: 2000 },
-  { label: '~20k', vertices: 20000 },
-]
-const SCENARIOS = [
-  { editors: 2, rooms: 1 },
-  { editors: 10, rooms: 1 },
-  { editors: 30, rooms: 1 },
-  { editors: 10, rooms: 5 },
-  { editors: 30, rooms: 10 },
-]
 
-const db = await startDb()
-const database = `veilroom_bench_${Date.now()}`
-await createDatabase({ ...dbDefaults, port: db.port, database })
-Object.assign(process.env, { DB_PORT: String(db.port), DB_NAME: database, NODE_ENV: 'test', LOG_LEVEL: 'error' })
+interface ClientJob {
+  url: string
+  rooms: { roomId: string; cookies: string[] }[]
+  vertices: number
+  seconds: number
+}
 
-// Imported after the environment is set: the server reads it once.
-const { loadConfig } = await import('../server/config.js')
-const { start } = await import('../server/main.js')
-const { attachRealtime } = await import('../server/realtime/index.js')
-const { connectDoc, connectStream, makeRoom, makeUser, signIn, until } = await import('../tests/realtime/live-helpers.js')
-const { loopsOf } = await import('../shared/room-doc/schema.js')
-const { movePoint, setSettings } = await import('../shared/room-doc/edits.js')
+interface ClientResult {
+  edits: number
+  surfaces: number
+  update: number[]
+  surface: number[]
+}
 
-const config = loadConfig(process.env)
-const running = await start({ port: 0, config })
-const wired = (running as { realtime?: ReturnType<typeof attachRealtime> }).realtime
-const realtime =
-  wired ??
-  attachRealtime(running.server, {
-    sessionMiddleware: running.sessionMiddleware,
-    passportSession: running.passportSession,
-    dataSource: running.dataSource,
-    config,
+if (process.argv.includes('--clients')) {
+  const job = JSON.parse(process.env.BENCH_JOB ?? '{}') as ClientJob
+  const result = await runClients(job)
+  process.stdout.write('\n' + JSON.stringify(result) + '\n')
+  process.exit(0)
+} else {
+  await main()
+}
+
+async function main(): Promise<void> {
+  const sizes = [2000, 20000].filter((v) => !process.env.BENCH_SIZES || process.env.BENCH_SIZES.split(',').includes(String(v)))
+  const scenarios = (process.env.BENCH_SCENARIOS ?? '2:1,10:1,30:1,10:5,30:10').split(',').map((pair) => {
+    const [editors, rooms] = pair.split(':').map(Number)
+    return { editors: editors!, rooms: rooms! }
   })
+  // Plain-JS helper without type declarations; the specifier is a value so tsc does not look for them.
+  const dbScript = './db.mjs'
+  const { createDatabase, dbDefaults, dropDatabase, startDb } = (await import(dbScript)) as {
+    startDb: () => Promise<{ port: number }>
+    createDatabase: (o: Record<string, unknown>) => Promise<void>
+    dropDatabase: (o: { port: number; database: string }) => Promise<void>
+    dbDefaults: Record<string, unknown>
+  }
+  const db = await startDb()
+  const database = `veilroom_bench_${Date.now()}`
+  await createDatabase({ ...dbDefaults, port: db.port, database })
+  Object.assign(process.env, { DB_PORT: String(db.port), DB_NAME: database, NODE_ENV: 'development', LOG_LEVEL: 'error' })
 
-const people: { id: string; cookie: string }[] = []
-for (let i = 0; i < 30; i++) {
-  const u = await makeUser(running.dataSource, `Bench${i}`)
-  people.push({ id: u.id, cookie: await signIn(running.url, u.email) })
+  // Imported after the environment is set: the server reads it once.
+  const { loadConfig } = await import('../server/config.js')
+  const { start } = await import('../server/main.js')
+  const { makeRoom, makeUser, signIn } = await import('../tests/realtime/live-helpers.js')
+  const running = await start({ port: 0, config: loadConfig(process.env) })
+  const people: { id: string; cookie: string }[] = []
+  for (let i = 0; i < 30; i++) {
+    const u = await makeUser(running.dataSource, `Bench${i}`)
+    people.push({ id: u.id, cookie: await signIn(running.url, u.email) })
+  }
+
+  const results = []
+  try {
+    for (const vertices of sizes) {
+      for (const { editors, rooms } of scenarios) {
+        const perRoom = Math.ceil(editors / rooms)
+        const members = people.slice(0, perRoom)
+        const jobRooms = []
+        for (let r = 0; r < rooms; r++) {
+          const roomId = await makeRoom(running.dataSource, members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' })))
+          await running.realtime.ensureRoomFrame(roomId, 'blank')
+          jobRooms.push({ roomId, cookies: members.map((m) => m.cookie) })
+        }
+        const loopDelay = monitorEventLoopDelay({ resolution: 10 })
+        loopDelay.enable()
+        const heapBefore = process.memoryUsage().heapUsed
+        const out = await clientsProcess({ url: running.url, rooms: jobRooms, vertices, seconds: SECONDS })
+        loopDelay.disable()
+        const r = {
+          vertices,
+          editors: perRoom * rooms,
+          rooms,
+          edits: out.edits,
+          surfaces: out.surfaces,
+          updateP50: percentile(out.update, 50),
+          updateP99: percentile(out.update, 99),
+          surfaceP50: percentile(out.surface, 50),
+          surfaceP99: percentile(out.surface, 99),
+          /** The server process's event-loop delay over the whole scenario (connect, edit, settle), ms. */
+          serverLoopDelayP99: loopDelay.percentile(99) / 1e6,
+          heapGrowthMb: (process.memoryUsage().heapUsed - heapBefore) / 2 ** 20,
+        }
+        results.push(r)
+        const f = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—').padStart(7)
+        console.log(
+          `~${vertices / 1000}k`.padEnd(5) + ` editors ${String(r.editors).padStart(2)} rooms ${String(rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
+            ` | edit→peer update p50 ${f(r.updateP50)} ms p99 ${f(r.updateP99)} ms` +
+            ` | edit→peer surface p50 ${f(r.surfaceP50)} ms p99 ${f(r.surfaceP99)} ms | surfaces ${String(r.surfaces).padStart(4)}` +
+            ` | server loop delay p99 ${f(r.serverLoopDelayP99)} ms`,
+        )
+      }
+    }
+  } finally {
+    await running.stop()
+    await dropDatabase({ port: db.port, database })
+  }
+  mkdirSync(resolve(root, 'bench-results'), { recursive: true })
+  const out = { when: new Date().toISOString(), secondsPerScenario: SECONDS, editsPerSecondPerEditor: EDITS_PER_SECOND, node: process.version, results }
+  writeFileSync(resolve(root, 'bench-results/live.json'), JSON.stringify(out, null, 2))
+  console.log('wrote bench-results/live.json')
+  process.exit(0)
+}
+
+function clientsProcess(job: ClientJob): Promise<ClientResult> {
+  return new Promise((resolvePromise, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', resolve(root, 'scripts/bench-live.ts'), '--clients'], {
+      env: { ...process.env, BENCH_JOB: JSON.stringify(job) },
+      stdio: ['ignore', 'pipe', 'inherit'],
+    })
+    let text = ''
+    child.stdout.on('data', (d: Buffer) => (text += d.toString()))
+    child.on('exit', (code) => {
+      const last = text.trim().split('\n').at(-1) ?? ''
+      if (code === 0 && last.startsWith('{')) resolvePromise(JSON.parse(last) as ClientResult)
+      else reject(new Error(`bench clients exited with ${code}: ${text.slice(-500)}`))
+    })
+  })
 }
 
 function percentile(values: number[], p: number): number {
@@ -74,31 +149,48 @@ function percentile(values: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!
 }
 
-interface Edit {
-  clock: number
-  t0: number
-}
+/** The simulated editors of all rooms of one scenario (child process). */
+async function runClients(job: ClientJob): Promise<ClientResult> {
+  const Y = await import('yjs')
+  const { WebsocketProvider } = await import('y-websocket')
+  const { default: WebSocket } = await import('ws')
+  const { io } = await import('socket.io-client')
+  const { loopsOf } = await import('../shared/room-doc/schema.js')
+  const { movePoint, setSettings } = await import('../shared/room-doc/edits.js')
 
-async function scenario(editors: number, roomCount: number, vertices: number) {
-  const perRoom = Math.ceil(editors / roomCount)
-  const updateLatency: number[] = []
-  const surfaceLatency: number[] = []
-  let edits = 0
-  let surfaces = 0
+  const result: ClientResult = { edits: 0, surfaces: 0, update: [], surface: [] }
   const teardown: (() => void)[] = []
   const timers: NodeJS.Timeout[] = []
+  const until = async (check: () => boolean, ms: number, what: string) => {
+    const end = Date.now() + ms
+    while (!check()) {
+      if (Date.now() > end) throw new Error(`timed out waiting for ${what}`)
+      await new Promise((r) => setTimeout(r, 20))
+    }
+  }
+  const socketClass = (cookie: string) =>
+    class extends WebSocket {
+      constructor(address: string | URL, protocols?: string | string[]) {
+        super(address, protocols, { headers: { cookie, origin: job.url } })
+      }
+    }
 
-  for (let r = 0; r < roomCount; r++) {
-    const members = people.slice(0, perRoom)
-    const roomId = await makeRoom(running.dataSource, members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' })))
-    await realtime.ensureRoomFrame(roomId, 'blank')
-    const clients = members.map((m) => connectDoc(running.url, roomId, m.cookie))
-    teardown.push(...clients.map((c) => c.destroy))
+  const starts: (() => void)[] = []
+  for (const { roomId, cookies } of job.rooms) {
+    const clients = cookies.map((cookie) => {
+      const doc = new Y.Doc()
+      const provider = new WebsocketProvider(job.url.replace(/^http/, 'ws') + '/sync', roomId, doc, {
+        WebSocketPolyfill: socketClass(cookie) as unknown as typeof globalThis.WebSocket,
+        disableBc: true,
+      })
+      teardown.push(() => provider.destroy())
+      return { doc, provider, synced: new Promise<void>((r) => provider.once('sync', () => r())) }
+    })
     await Promise.all(clients.map((c) => c.synced))
     // The blank frame is a 6 m square: h from plan area ≈ 0.866 h² × vertices (equilateral lattice).
-    setSettings(clients[0]!.doc, { edgeLength: Math.sqrt(36 / (0.866 * vertices)) })
+    setSettings(clients[0]!.doc, { edgeLength: Math.sqrt(36 / (0.866 * job.vertices)) })
 
-    const log = new Map<number, Edit[]>(clients.map((c) => [c.doc.clientID, []]))
+    const log = new Map<number, { clock: number; t0: number }[]>(clients.map((c) => [c.doc.clientID, []]))
     for (const peer of clients) {
       const seen = new Map<number, number>()
       peer.doc.on('update', (update: Uint8Array, origin: unknown) => {
@@ -108,89 +200,54 @@ async function scenario(editors: number, roomCount: number, vertices: number) {
           const list = log.get(client)
           if (!list || client === peer.doc.clientID) continue
           let i = seen.get(client) ?? 0
-          while (i < list.length && list[i]!.clock <= clock) updateLatency.push(t - list[i++]!.t0)
+          while (i < list.length && list[i]!.clock <= clock) result.update.push(t - list[i++]!.t0)
           seen.set(client, i)
         }
       })
     }
-    const observer = connectStream(running.url, members[0]!.cookie)
+    const observer = io(job.url, { transports: ['websocket'], extraHeaders: { cookie: cookies[0]!, origin: job.url }, forceNew: true, reconnection: false })
     teardown.push(() => observer.close())
     const surfaceSeen = new Map<number, number>()
     let ready = false
-    observer.on('surface', (s: { stateVector: Uint8Array }) => {
+    let roomSurfaces = 0
+    observer.on('surface', (s: { stateVector: Uint8Array; coarse: boolean }) => {
       const t = performance.now()
-      surfaces++
+      roomSurfaces++
       if (!ready) return
+      result.surfaces++
       const sv = Y.decodeStateVector(new Uint8Array(s.stateVector))
       for (const [client, list] of log) {
         let i = surfaceSeen.get(client) ?? 0
         const clock = sv.get(client) ?? 0
-        while (i < list.length && list[i]!.clock <= clock) surfaceLatency.push(t - list[i++]!.t0)
+        while (i < list.length && list[i]!.clock <= clock) result.surface.push(t - list[i++]!.t0)
         surfaceSeen.set(client, i)
       }
     })
-    const ack = await observer.timeout(10_000).emitWithAck('room:join', { roomId })
+    const ack = (await observer.timeout(10_000).emitWithAck('room:join', { roomId })) as { ok: boolean }
     if (!ack.ok) throw new Error(`join failed: ${JSON.stringify(ack)}`)
-    // Start measuring from a settled room at the target size.
-    await until(() => surfaces > 0, 60_000, 'first surface')
-    ready = true
-
-    clients.forEach((c, k) => {
-      const outer = loopsOf(c.doc).get(0).get('id') as string
-      const corner = `b${(k % 4) + 1}`
-      let step = 0
-      const edit = () => {
-        movePoint(c.doc, outer, corner, { z: 0.4 * Math.sin(++step / 3 + k) })
-        log.get(c.doc.clientID)!.push({ clock: Y.getState(c.doc.store, c.doc.clientID), t0: performance.now() })
-        edits++
-      }
-      // Editors start out of phase, as people do.
-      setTimeout(() => timers.push(setInterval(edit, 1000 / EDITS_PER_SECOND)), (k * 37) % 200)
+    // Measure from a solved room at the target size.
+    await until(() => roomSurfaces > 0, 120_000, 'first surface')
+    starts.push(() => {
+      ready = true
+      clients.forEach((c, k) => {
+        const outer = loopsOf(c.doc).get(0).get('id') as string
+        const corner = `b${(k % 4) + 1}`
+        let step = 0
+        const edit = () => {
+          movePoint(c.doc, outer, corner, { z: 0.4 * Math.sin(++step / 3 + k) })
+          log.get(c.doc.clientID)!.push({ clock: Y.getState(c.doc.store, c.doc.clientID), t0: performance.now() })
+          result.edits++
+        }
+        // Editors start out of phase, as people do.
+        setTimeout(() => timers.push(setInterval(edit, 1000 / EDITS_PER_SECOND)), (k * 37) % 200)
+      })
     })
   }
-
-  await new Promise((r) => setTimeout(r, SECONDS * 1000 + 200))
+  for (const go of starts) go()
+  await new Promise((r) => setTimeout(r, job.seconds * 1000 + 200))
   for (const t of timers) clearInterval(t)
-  // Let the last edits settle into a surface.
-  await new Promise((r) => setTimeout(r, vertices > 5000 ? 4000 : 1500))
+  // Let the last edits reach everyone and settle into a surface.
+  await new Promise((r) => setTimeout(r, job.vertices > 5000 ? 5000 : 2000))
   for (const close of teardown) close()
-  await new Promise((r) => setTimeout(r, 500))
-  return {
-    editors,
-    rooms: roomCount,
-    vertices,
-    edits,
-    surfaces,
-    updateP50: percentile(updateLatency, 50),
-    updateP99: percentile(updateLatency, 99),
-    surfaceP50: percentile(surfaceLatency, 50),
-    surfaceP99: percentile(surfaceLatency, 99),
-    surfaceSamples: surfaceLatency.length,
-  }
+  return result
 }
-
-const results = []
-try {
-  for (const size of SIZES) {
-    for (const s of SCENARIOS) {
-      const r = await scenario(s.editors, s.rooms, size.vertices)
-      results.push({ size: size.label, ...r })
-      const f = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—')
-      console.log(
-        `${size.label.padEnd(5)} editors ${String(s.editors).padStart(2)} rooms ${String(s.rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
-          ` | edit→peer update p50 ${f(r.updateP50).padStart(7)} ms p99 ${f(r.updateP99).padStart(7)} ms` +
-          ` | edit→peer surface p50 ${f(r.surfaceP50).padStart(7)} ms p99 ${f(r.surfaceP99).padStart(7)} ms | surfaces ${r.surfaces}`,
-      )
-    }
-  }
-} finally {
-  if (!wired) await realtime.close()
-  await running.stop()
-  await dropDatabase({ port: db.port, database })
-}
-
-mkdirSync(resolve(root, 'bench-results'), { recursive: true })
-const out = { when: new Date().toISOString(), secondsPerScenario: SECONDS, editsPerSecondPerEditor: EDITS_PER_SECOND, node: process.version, results }
-writeFileSync(resolve(root, 'bench-results/live.json'), JSON.stringify(out, null, 2))
-console.log('wrote bench-results/live.json')
-process.exit(0)

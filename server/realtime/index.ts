@@ -73,7 +73,8 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
   }
 
   const rooms = new RoomDocs(deps.dataSource, tuning)
-  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
+  // SOLVE_WORKERS belongs in server/config.ts; read from the environment until it is there.
+  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? (Number(process.env.SOLVE_WORKERS) || 2))
   // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
   // server, not for each of the many short-lived test servers, which start workers on first use.
   if (config.NODE_ENV !== 'test') pool.warmUp()

@@ -11,7 +11,7 @@ import type { DataSource } from 'typeorm'
 import { readRawFrame, writeFrame } from '../../shared/room-doc/schema.js'
 import { starterFrame, type StarterKey } from '../../shared/room-doc/starters.js'
 import { logger } from '../lib/logger.js'
-import { appendUpdate, loadStoredRoom, storeCompacted } from './room-store.js'
+import { appendUpdates, loadStoredRoom, storeCompacted } from './room-store.js'
 
 /** Transaction origin of the load; those updates are already stored. */
 const LOAD = Symbol('load')
@@ -35,6 +35,8 @@ export class LiveRoom {
   seeded = false
   idleTimer: NodeJS.Timeout | undefined
   readonly relays = new Set<RelayListener>()
+  /** Accepted updates waiting for the next write, oldest first. */
+  unstored: { update: Uint8Array; origin: unknown; version: number }[] = []
 
   constructor(readonly roomId: string) {
     // The server has no presence of its own.
@@ -183,21 +185,27 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   private accepted(room: LiveRoom, update: Uint8Array, origin: unknown): void {
     room.version++
     room.sinceCompact++
-    const version = room.version
-    void this.enqueue(room, async () => {
-      try {
-        room.lastUpdateId = await appendUpdate(this.ds, room.roomId, update, version)
-      } catch (err) {
-        // Fall back to writing the whole state; relay either way so peers do not drift apart.
-        logger.error('realtime: storing an update failed', { roomId: room.roomId, err: String(err) })
-        await this.compact(room)
-      }
-      for (const relay of room.relays) relay(update, origin, version)
-      if (room.sinceCompact >= this.compactEvery) await this.compact(room)
-    })
+    room.unstored.push({ update, origin, version: room.version })
+    // Updates that arrive while a write is in flight are stored together in the next one: one
+    // round trip per batch keeps a busy room's relay delay near one insert, not a growing queue.
+    if (room.unstored.length === 1) void this.enqueue(room, () => this.storeAndRelay(room))
     clearTimeout(room.idleTimer)
     room.idleTimer = setTimeout(() => void this.enqueue(room, () => this.compact(room)), this.idleMs)
     room.idleTimer.unref()
+  }
+
+  private async storeAndRelay(room: LiveRoom): Promise<void> {
+    const batch = room.unstored
+    room.unstored = []
+    try {
+      room.lastUpdateId = await appendUpdates(this.ds, room.roomId, batch)
+    } catch (err) {
+      // Fall back to writing the whole state; relay either way so peers do not drift apart.
+      logger.error('realtime: storing updates failed', { roomId: room.roomId, err: String(err) })
+      await this.compact(room)
+    }
+    for (const { update, origin, version } of batch) for (const relay of room.relays) relay(update, origin, version)
+    if (room.sinceCompact >= this.compactEvery) await this.compact(room)
   }
 
   private enqueue(room: LiveRoom, step: () => Promise<void>): Promise<void> {

@@ -41,14 +41,17 @@ export async function loadStoredRoom(ds: DataSource, roomId: string): Promise<St
   }
 }
 
-/** Appends one accepted update; returns its row id. */
-export async function appendUpdate(ds: DataSource, roomId: string, update: Uint8Array, version: number): Promise<number> {
-  const result = (await ds.query('INSERT INTO `room_updates` (`room_id`, `update`, `version`) VALUES (?, ?, ?)', [
-    roomId,
-    Buffer.from(update.buffer, update.byteOffset, update.byteLength),
-    version,
-  ])) as { insertId: number }
-  return Number(result.insertId)
+/**
+ * Appends accepted updates in one statement, oldest first; returns the newest row id. Ids of one
+ * multi-row insert are consecutive (InnoDB's default auto-increment lock mode); compaction only
+ * relies on every earlier row of this room having a smaller id, which holds in any mode because a
+ * room's writes run one after another.
+ */
+export async function appendUpdates(ds: DataSource, roomId: string, rows: readonly { update: Uint8Array; version: number }[]): Promise<number> {
+  const values = rows.map(() => '(?, ?, ?)').join(', ')
+  const params = rows.flatMap(({ update, version }) => [roomId, Buffer.from(update.buffer, update.byteOffset, update.byteLength), version])
+  const result = (await ds.query(`INSERT INTO \`room_updates\` (\`room_id\`, \`update\`, \`version\`) VALUES ${values}`, params)) as { insertId: number; affectedRows: number }
+  return Number(result.insertId) + rows.length - 1
 }
 
 /**
@@ -56,7 +59,9 @@ export async function appendUpdate(ds: DataSource, roomId: string, update: Uint8
  * (ids ≤ upToId). Rows appended meanwhile stay and are re-applied on load; yjs ignores duplicates.
  */
 export async function storeCompacted(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
-  await ds.transaction(async (em) => {
+  // READ COMMITTED: the range delete then takes no gap locks, which deadlocked against other
+  // rooms' inserts into the same index under REPEATABLE READ.
+  await ds.transaction('READ COMMITTED', async (em) => {
     await em.query(
       'INSERT INTO `room_documents` (`room_id`, `state`, `version`, `updated_at`) VALUES (?, ?, ?, NOW(3)) ' +
         'ON DUPLICATE KEY UPDATE `state` = VALUES(`state`), `version` = VALUES(`version`), `updated_at` = NOW(3)',
