@@ -95,7 +95,12 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     const c = openRoomDocument(id, user, myRole)
     collab = c
     clientId.value = c.doc.clientID
-    const refresh = (): void => { frame.value = readFrameView(c.doc) }
+    const refresh = (): void => {
+      frame.value = readFrameView(c.doc)
+      // a peer may delete the point I have selected: let go of it rather than hold a ghost
+      const sel = selection.value
+      if (sel && !frame.value.loops.some((l) => l.id === sel.loopId && l.points.some((p) => p.id === sel.pointId))) select(null)
+    }
     const undoState = (): void => { canUndo.value = c.undo.canUndo(); canRedo.value = c.undo.canRedo() }
     c.doc.on('update', refresh)
     c.provider.on('status', (e) => { sync.value = e.status })
