@@ -15,6 +15,7 @@ import type { Express } from 'express'
 import { Socket as ServerSocket } from 'socket.io'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RoomRole } from '../../server/db/entities/index.js'
+import * as Y from 'yjs'
 import { loopsOf } from '../../shared/room-doc/schema.js'
 import { connectStream, makeRoom, makeUser, signIn, startLive, type Live } from '../realtime/live-helpers.js'
 import { awarenessMessage, editUpdate, openRaw, syncMessage, waitFor } from './raw-sync.js'
@@ -262,11 +263,11 @@ describe('sync message types × callers', () => {
       peer.send(syncMessage(0, new Uint8Array([0])))
       await waitFor(() => peer.syncSeen.includes(1), 5000, 'sync step 2 answer')
       const step1 = peer.doc.getMap('frame').has('loops') ? 'answered' : 'empty answer'
-      const first = () => loopsOf(peer.doc).get(0).get('points')!.get(0)
+      const first = () => (loopsOf(peer.doc).get(0).get('points') as Y.Array<Y.Map<number>>).get(0)
       const tagA = Math.round(Math.random() * 1e6) / 1e3 + 100
       const tagB = tagA + 1
-      peer.send(syncMessage(1, editUpdate(peer.doc, () => (first() as any).set('z', tagA))))
-      peer.send(syncMessage(2, editUpdate(peer.doc, () => (first() as any).set('x', tagB))))
+      peer.send(syncMessage(1, editUpdate(peer.doc, () => first().set('z', tagA))))
+      peer.send(syncMessage(2, editUpdate(peer.doc, () => first().set('x', tagB))))
       const { bytes, clientId } = awarenessMessage({ user: { id: ids[who as RoomRole], name: who, color: '#888' }, held: null })
       peer.send(bytes)
       // One socket's messages are handled in order: once the awareness is in, the edits were handled.
