@@ -16,6 +16,13 @@ import { rowCoordinates, SpdSystem } from './spd-system'
 
 export const SPATIAL_METHOD = 'surface-stress-density'
 
+/**
+ * Over-relaxation of the cable binormal moves: the step sees interior vertices frozen in the
+ * tangent plane, so it undershoots the cable's move. Measured on the flat cable test: iterations
+ * 69 → 41 (h = 0.25 m) and 289 → 176 (h = 0.125 m) with 1.5; 1.8 was worse.
+ */
+const CABLE_OVERRELAXATION = 1.5
+
 /** A membrane in space: rigid frame vertices held, cable-edge vertices free on their cables. */
 export interface SpatialProblem {
   /** #V×3 Float64Array, m: the start surface (a loft, or the previous solution). */
@@ -127,7 +134,7 @@ export function solveSpatial(
   const startWeights = new Float64Array(triangles.length)
   cornerCotanWeights(startWeights, faceAreas, x, triangles)
   const tolerance = control.tolerance ?? 1e-10
-  const maxIterations = control.maxIterations ?? 500
+  const maxIterations = control.maxIterations ?? 2000
   let iterations = 0
   let firstArea = 0
   // progress watch: an equilibrium halves the residual now and then; a pinching film does not
@@ -175,7 +182,8 @@ export function solveSpatial(
     for (let row = 0; row < n; row++) {
       const v = freeVertices[row]!
       for (let a = dofs.dofStart[row]!; a < dofs.dofStart[row + 1]!; a++) {
-        for (let d = 0; d < 3; d++) x[3 * v + d]! += alpha[a]! * basis[3 * a + d]!
+        const omega = a > dofs.dofStart[row]! ? CABLE_OVERRELAXATION : 1
+        for (let d = 0; d < 3; d++) x[3 * v + d]! += omega * alpha[a]! * basis[3 * a + d]!
       }
     }
     harmonicTarget(target, regulariser, x, x, triangles, startWeights)
