@@ -59,8 +59,20 @@ export async function appendUpdates(ds: DataSource, roomId: string, rows: readon
  * (ids ≤ upToId). Rows appended meanwhile stay and are re-applied on load; yjs ignores duplicates.
  */
 export async function storeCompacted(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
-  // READ COMMITTED: the range delete then takes no gap locks, which deadlocked against other
-  // rooms' inserts into the same index under REPEATABLE READ.
+  // InnoDB may still pick this transaction as a deadlock victim when many rooms compact at once
+  // (everyone leaving together); the documented remedy is to run it again.
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await compactOnce(ds, roomId, state, version, upToId)
+    } catch (err) {
+      if (attempt >= 3 || (err as { driverError?: { errno?: number } }).driverError?.errno !== 1213) throw err
+    }
+  }
+}
+
+async function compactOnce(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
+  // READ COMMITTED: the range delete takes no gap locks, which deadlocked against other rooms'
+  // inserts into the same index under REPEATABLE READ.
   await ds.transaction('READ COMMITTED', async (em) => {
     await em.query(
       'INSERT INTO `room_documents` (`room_id`, `state`, `version`, `updated_at`) VALUES (?, ?, ?, NOW(3)) ' +
