@@ -7,7 +7,7 @@
 import * as Y from 'yjs'
 import { WebsocketProvider } from 'y-websocket'
 import type { Awareness } from 'y-protocols/awareness'
-import { frameMap } from '../../shared/room-doc/schema.ts'
+import { frameMap } from '../../shared/room-doc/schema'
 import type { RoomRole } from './schemas'
 import { canEditFrame } from '../lib/roles'
 

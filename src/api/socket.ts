@@ -6,7 +6,7 @@
  */
 import { io, type Socket } from 'socket.io-client'
 import { z } from 'zod'
-import type { Figures, SolverReport, SolverState } from '../../shared/types.ts'
+import type { Figures, SolverReport, SolverState } from '../../shared/types'
 import type { RoomRole } from './schemas'
 import { roomRoles } from './schemas'
 

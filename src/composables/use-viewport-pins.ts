@@ -1,13 +1,13 @@
 /**
- * Pins in the workbench viewport: draws the pins store's markers into the stage, and turns a plain
- * click (no drag) into either "open this pin" (a marker was hit) or "start a pin here" (the surface
- * was hit, for roles that may pin). A click is held back briefly so that a double-click, which adds
- * a frame point, never also starts a pin.
+ * Pins in the workbench viewport: the markers (and selecting a pin by clicking its marker) come from
+ * usePinMarkersIn; here a plain click (no drag) that misses every marker and hits the surface starts
+ * a new pin there, for roles that may pin. A click is held back briefly so that a double-click,
+ * which adds a frame point, never also starts a pin.
  */
-import { onBeforeUnmount, watch, type ShallowRef } from 'vue'
+import { onBeforeUnmount, type ShallowRef } from 'vue'
 import * as THREE from 'three'
 import { canAddPins } from './use-pin-filters'
-import { usePinMarkers } from './use-pin-markers'
+import { usePinMarkersIn } from './use-pin-markers'
 import { usePinsStore } from '../stores/pins'
 import { useWorkbenchStore } from '../stores/workbench'
 import type { Viewport } from './use-viewport'
@@ -35,22 +35,13 @@ export function pickSurface(vp: Viewport, mesh: THREE.Mesh, ev: { clientX: numbe
 export function useViewportPins(viewport: ShallowRef<Viewport | null>, mesh: THREE.Mesh, onPick?: (p: SurfacePick) => void) {
   const pins = usePinsStore()
   const workbench = useWorkbenchStore()
-  let markers: ReturnType<typeof usePinMarkers> | null = null
+  const { markerAt } = usePinMarkersIn(viewport)
   let timer: ReturnType<typeof setTimeout> | undefined
-
-  watch(viewport, (vp) => {
-    markers?.dispose()
-    markers = vp ? usePinMarkers(vp.scene, vp.camera, { requestRender: vp.requestRender }) : null
-  }, { immediate: true })
 
   function handle(ev: { clientX: number; clientY: number }): void {
     const vp = viewport.value
-    if (!vp) return
-    const pinId = markers?.pickEvent(ev, vp.canvas)
-    if (pinId) {
-      pins.selectedId = pinId
-      return
-    }
+    // a click on a marker opens that pin (usePinMarkersIn does it), never starts a new one
+    if (!vp || markerAt(ev)) return
     const hit = pickSurface(vp, mesh, ev)
     const surface = workbench.surface
     if (!hit || !surface) return
@@ -68,9 +59,6 @@ export function useViewportPins(viewport: ShallowRef<Viewport | null>, mesh: THR
   /** Cancels a pending click: it was the first half of a double-click. */
   const cancelClick = (): void => clearTimeout(timer)
 
-  onBeforeUnmount(() => {
-    clearTimeout(timer)
-    markers?.dispose()
-  })
+  onBeforeUnmount(() => clearTimeout(timer))
   return { click, cancelClick }
 }

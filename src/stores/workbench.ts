@@ -1,8 +1,8 @@
 import { computed, ref, shallowRef } from 'vue'
 import { defineStore } from 'pinia'
-import type { Figures, SolverReport } from '../../shared/types.ts'
-import * as edits from '../../shared/room-doc/edits.ts'
-import type { EdgeKind } from '../../shared/types.ts'
+import type { Figures, SolverReport } from '../../shared/types'
+import * as edits from '../../shared/room-doc/edits'
+import type { EdgeKind } from '../../shared/types'
 import {
   CAPTURE_TIMEOUT_MS, includesClock, openRoomDocument, ownClock, trackPeers,
   type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,

@@ -2,9 +2,9 @@ import { beforeEach, describe, expect, it, vi } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
 import * as Y from 'yjs'
 import { Awareness } from 'y-protocols/awareness'
-import { writeFrame } from '../../shared/room-doc/schema.ts'
-import { starterFrame } from '../../shared/room-doc/starters.ts'
-import { movePoint } from '../../shared/room-doc/edits.ts'
+import { writeFrame } from '../../shared/room-doc/schema'
+import { starterFrame } from '../../shared/room-doc/starters'
+import { movePoint } from '../../shared/room-doc/edits'
 import type { StreamHandlers } from '../../src/api/socket'
 
 // Expected behaviour comes from the agreed live-room protocol (solver states per document version,

@@ -5,8 +5,8 @@
  * validator names bad fields through the solver status.
  */
 import * as Y from 'yjs'
-import type { EdgeKind } from '../../../shared/types.ts'
-import { frameMap, type YLoop } from '../../../shared/room-doc/schema.ts'
+import type { EdgeKind } from '../../../shared/types'
+import { frameMap, type YLoop } from '../../../shared/room-doc/schema'
 
 export interface ViewPoint {
   id: string
