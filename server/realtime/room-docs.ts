@@ -35,6 +35,8 @@ export class LiveRoom {
   seeded = false
   idleTimer: NodeJS.Timeout | undefined
   readonly relays = new Set<RelayListener>()
+  /** Which socket introduced each awareness client id (checked by the sync endpoint). */
+  readonly presenceOwners = new Map<number, { socket: unknown; userId: string }>()
   /** Accepted updates waiting for the next write, oldest first. */
   unstored: { update: Uint8Array; origin: unknown; version: number }[] = []
 

@@ -66,7 +66,7 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
       live.set(ws, { roomId, userId: user.id })
       alive.add(ws)
       ws.on('pong', () => alive.add(ws))
-      serve(ws, room, !canEditFrame(role))
+      serve(ws, room, !canEditFrame(role), user.id)
       ws.once('close', () => {
         live.delete(ws)
         void opts.rooms.release(room)
@@ -119,7 +119,7 @@ function send(ws: WebSocket, message: Uint8Array): void {
 }
 
 /** Speaks the y-websocket protocol on one accepted socket. */
-function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean): void {
+function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string): void {
   const controlled = new Set<number>()
   ws.on('error', (err) => logger.debug('realtime: sync socket error', { roomId: room.roomId, err: String(err) }))
 
@@ -145,7 +145,7 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean): void {
   ws.on('message', (data, isBinary) => {
     try {
       if (!isBinary) throw new Error('text frame')
-      handleMessage(ws, room, readOnly, toBytes(data))
+      handleMessage(ws, room, readOnly, userId, toBytes(data))
     } catch (err) {
       // A message that does not decode is either a bug or an attack: end this socket only.
       logger.warn('realtime: closing a sync socket on a bad message', { roomId: room.roomId, err: String(err) })
@@ -158,6 +158,7 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean): void {
     room.relays.delete(relay)
     room.awareness.off('update', onAwareness)
     awarenessProtocol.removeAwarenessStates(room.awareness, [...controlled], null)
+    for (const [id, owner] of room.presenceOwners) if (owner.socket === ws) room.presenceOwners.delete(id)
   })
 
   // The server opens with its own sync-step-1 so the client sends what the server lacks.
@@ -166,6 +167,19 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean): void {
   syncProtocol.writeSyncStep1(encoder, room.doc)
   send(ws, encoding.toUint8Array(encoder))
   if (room.awareness.getStates().size > 0) send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
+}
+
+/** The client ids an awareness update speaks for (y-protocols layout: count, then id, clock, state). */
+function awarenessClients(update: Uint8Array): number[] {
+  const decoder = decoding.createDecoder(update)
+  const count = decoding.readVarUint(decoder)
+  const ids: number[] = []
+  for (let i = 0; i < count; i++) {
+    ids.push(decoding.readVarUint(decoder))
+    decoding.readVarUint(decoder)
+    decoding.readVarString(decoder)
+  }
+  return ids
 }
 
 function toBytes(data: Buffer | ArrayBuffer | Buffer[]): Uint8Array {
@@ -180,7 +194,7 @@ function awarenessMessage(room: LiveRoom, clients: number[]): Uint8Array {
   return encoding.toUint8Array(encoder)
 }
 
-function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, bytes: Uint8Array): void {
+function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string, bytes: Uint8Array): void {
   const decoder = decoding.createDecoder(bytes)
   const type = decoding.readVarUint(decoder)
   if (type === MESSAGE_SYNC) {
@@ -202,7 +216,15 @@ function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, bytes: 
       throw new Error(`unknown sync step ${step}`)
     }
   } else if (type === MESSAGE_AWARENESS) {
-    awarenessProtocol.applyAwarenessUpdate(room.awareness, decoding.readVarUint8Array(decoder), ws)
+    const update = decoding.readVarUint8Array(decoder)
+    // A user may speak only for client ids they introduced: no faking or removing others' presence.
+    // The same user may take an id over (a reconnect while the old socket is not yet closed).
+    for (const id of awarenessClients(update)) {
+      const owner = room.presenceOwners.get(id)
+      if (owner !== undefined && owner.userId !== userId) throw new Error(`awareness for client ${id} of another user`)
+      room.presenceOwners.set(id, { socket: ws, userId })
+    }
+    awarenessProtocol.applyAwarenessUpdate(room.awareness, update, ws)
   } else if (type === MESSAGE_QUERY_AWARENESS) {
     send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
   } else {

@@ -44,7 +44,7 @@ describe('realtime accessors', () => {
     // A flat square frame spans a flat membrane: area = plan area = 36 m² (elementary geometry).
     expect(surface!.figures.area).toBeCloseTo(36, 6)
     expect(surface!.vertices.length % 3).toBe(0)
-  }, 60_000)
+  }, 90_000)
 
   it("closes a removed member's sync and stream sockets, and nobody else's", async () => {
     const roomId = await makeRoom(live.running.dataSource, [

@@ -4,6 +4,7 @@
  * survive; edits of a deleted type are discarded) and from our protocol (/work/notes/protocol.md).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import * as encoding from 'lib0/encoding'
 import WebSocket from 'ws'
 import * as Y from 'yjs'
 import { deletePoint, findPoint, insertPointAfter, movePoint } from '../../shared/room-doc/edits.js'
@@ -160,6 +161,33 @@ describe('bad input', () => {
     // Room A still accepts well-behaved clients.
     const a = await open(roomA, owner.cookie)
     expect(frameJson(a.doc)).toContain('"s1"')
+  })
+})
+
+describe('presence', () => {
+  it("closes a socket that speaks for another user's awareness client; the victim's presence stays", async () => {
+    const roomId = await seededRoom()
+    const victim = await open(roomId, owner.cookie)
+    victim.provider.awareness.setLocalStateField('user', { id: owner.id, name: 'Owner', color: '#123456' })
+    const server = live.realtime.rooms.peek(roomId)!
+    await until(() => !!server.awareness.getStates().get(victim.doc.clientID)?.user, 5000, 'victim presence')
+    // y-protocols awareness update: count, then per client id, clock, JSON state ("null" removes).
+    const update = encoding.createEncoder()
+    encoding.writeVarUint(update, 1)
+    encoding.writeVarUint(update, victim.doc.clientID)
+    encoding.writeVarUint(update, 1_000_000)
+    encoding.writeVarString(update, 'null')
+    const message = encoding.createEncoder()
+    encoding.writeVarUint(message, 1)
+    encoding.writeVarUint8Array(message, encoding.toUint8Array(update))
+    const code = await new Promise<number>((resolve) => {
+      const ws = new WebSocket(live.url.replace(/^http/, 'ws') + `/sync/${roomId}`, { headers: { origin: live.url, cookie: editor.cookie } })
+      ws.on('error', () => undefined)
+      ws.on('open', () => ws.send(encoding.toUint8Array(message)))
+      ws.on('close', (c) => resolve(c))
+    })
+    expect(code).toBe(4400)
+    expect(server.awareness.getStates().get(victim.doc.clientID)?.user).toMatchObject({ name: 'Owner' })
   })
 })
 
