@@ -81,6 +81,15 @@ export function openRoomDocument(roomId: string, user: PresenceUser, role: RoomR
   const provider = new WebsocketProvider(`${syncBase()}/sync`, roomId, doc, { disableBc: true })
   const origin = { source: 'workbench', roomId }
   const undo = createUndoManager(doc, origin)
+  // y-websocket re-sends every awareness change it hears, peers' states included; the server lets
+  // a socket speak only for its own client id (and it saves traffic), so send our own state only.
+  const forward = provider._awarenessUpdateHandler
+  const ownOnly = (change: AwarenessChange, origin: unknown): void => {
+    const own = ownAwarenessChange(doc.clientID, change)
+    if (own) forward(own, origin)
+  }
+  provider.awareness.off('update', forward)
+  provider.awareness.on('update', ownOnly)
   const state: PresenceState = { user, held: null }
   provider.awareness.setLocalState(state)
   return {
@@ -94,11 +103,26 @@ export function openRoomDocument(roomId: string, user: PresenceUser, role: RoomR
     },
     destroy() {
       provider.awareness.setLocalState(null)
+      provider.awareness.off('update', ownOnly)
       undo.destroy()
       provider.destroy()
       doc.destroy()
     },
   }
+}
+
+/** The client ids an awareness 'update' event names. */
+export interface AwarenessChange {
+  added: number[]
+  updated: number[]
+  removed: number[]
+}
+
+/** The part of an awareness change about `clientId` alone, or null when it names only others. */
+export function ownAwarenessChange(clientId: number, change: AwarenessChange): AwarenessChange | null {
+  const mine = (ids: number[]): number[] => ids.filter((id) => id === clientId)
+  const own = { added: mine(change.added), updated: mine(change.updated), removed: mine(change.removed) }
+  return own.added.length + own.updated.length + own.removed.length > 0 ? own : null
 }
 
 /** Reads a peer's awareness state; anything malformed (an old or foreign client) gives null. */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { Awareness } from 'y-protocols/awareness'
 import { asFloat32, asUint32, readSolveProgress, readSolveState, readSurface } from '../../src/api/socket'
-import { listPeers, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
+import { listPeers, ownAwarenessChange, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
 
 const figures = {
   area: 70.2, planArea: 64, perimeter: 32.5, cables: [{ loop: 0, edge: 1, length: 8.1, force: 24, sag: 0.4 }],
@@ -81,5 +81,13 @@ describe('presence', () => {
   it('builds the sync URL from the page location', () => {
     expect(syncBase({ protocol: 'https:', host: 'veil.example:8443' })).toBe('wss://veil.example:8443')
     expect(syncBase({ protocol: 'http:', host: 'localhost:5173' })).toBe('ws://localhost:5173')
+  })
+})
+
+describe('awareness sent to the server', () => {
+  it('keeps only this client in an awareness change (peers speak for themselves)', () => {
+    expect(ownAwarenessChange(7, { added: [7, 9], updated: [], removed: [3] })).toEqual({ added: [7], updated: [], removed: [] })
+    expect(ownAwarenessChange(7, { added: [], updated: [9], removed: [3] })).toBeNull()
+    expect(ownAwarenessChange(7, { added: [], updated: [], removed: [7] })).toEqual({ added: [], updated: [], removed: [7] })
   })
 })
