@@ -12,7 +12,7 @@ export interface FigureRow {
   b: number | null
   /** b − a; null when either side lacks the figure. */
   diff: number | null
-  /** (b − a) / |a|; null when a is 0 or missing. */
+  /** (b − a) / |a|; null when a is (within 1e-9 of) 0 or missing. */
   relative: number | null
 }
 
@@ -20,7 +20,8 @@ function row(key: string, label: string, unit: string, a: number | null | undefi
   const av = a ?? null
   const bv = b ?? null
   const diff = av !== null && bv !== null ? bv - av : null
-  const relative = diff !== null && av !== null && av !== 0 ? diff / Math.abs(av) : null
+  // A relative change of a figure that is (numerically) zero, e.g. the slope of a flat sail, says nothing.
+  const relative = diff !== null && av !== null && Math.abs(av) > 1e-9 ? diff / Math.abs(av) : null
   return { key, label, unit, a: av, b: bv, diff, relative }
 }
 

@@ -8,9 +8,13 @@ import { demoPassword } from './demo-accounts'
 // replies and resolves (seen live by the guest), saves two snapshots and compares them.
 const OWNER = 'owner@demo.veilroom.test'
 const ROOM = 'Four-point shade sail — Quay Café'
-const GUEST = `guest-${Date.now().toString(36)}@studio.veilroom.test`
+// Unique per run, so the test also passes against a server that has seen earlier runs.
+const RUN = Date.now().toString(36)
+const GUEST = `guest-${RUN}@studio.veilroom.test`
 const GUEST_PASSWORD = 'tensioned-guest-2026'
-const PIN_TEXT = 'Low point by the north anchor: will this pond?'
+const PIN_TEXT = `Low point by the north anchor: will this pond? (${RUN})`
+const BEFORE = `Sail before review ${RUN}`
+const AFTER = `Sail after review ${RUN}`
 
 /** POST/PATCH from inside the page, with the session cookie and a CSRF token, like the app does. */
 async function apiCall(page: Page, method: string, path: string, body: unknown): Promise<{ status: number; json: unknown }> {
@@ -152,17 +156,17 @@ describe('team work: invite, pins, snapshots', () => {
 
   it('the owner saves two snapshots and they are listed', async () => {
     const { page } = owner
-    await saveSnapshot(page, 'Sail before review')
-    await saveSnapshot(page, 'Sail after review')
+    await saveSnapshot(page, BEFORE)
+    await saveSnapshot(page, AFTER)
     const table = page.getByTestId('snapshots-table')
-    await table.getByText('Sail before review').waitFor()
-    await table.getByText('Sail after review').waitFor()
+    await table.getByText(BEFORE).waitFor()
+    await table.getByText(AFTER).waitFor()
   })
 
   it('compares the two snapshots: both views drawn, figures unchanged for an unchanged frame', async () => {
     const { page } = owner
     const table = page.getByTestId('snapshots-table')
-    for (const name of ['Sail before review', 'Sail after review']) {
+    for (const name of [BEFORE, AFTER]) {
       await table.locator('tr', { hasText: name }).locator('.n-checkbox').click()
     }
     await page.getByTestId('compare-snapshots').click()
@@ -186,7 +190,7 @@ describe('team work: invite, pins, snapshots', () => {
     // Loading the mesh and drawing two WebGL views in software can be slow on a busy machine.
     await img.waitFor({ timeout: 45_000 })
     expect(await img.getAttribute('src')).toMatch(/^data:image\/png;base64,/)
-    expect(await page.getByTestId('report-snapshot').textContent()).toBe('Sail before review')
+    expect(await page.getByTestId('report-snapshot').textContent()).toBe(BEFORE)
     expect(await page.getByTestId('report-figures').textContent()).toContain('Fabric area')
     expect(await page.getByTestId('caution-note').textContent()).toContain('preliminary')
     // Print CSS drops the app's top bar from the PDF.

@@ -125,6 +125,7 @@ describe('figure differences', () => {
     expect(get('planArea').diff).toBe(0)
     expect(get('heightMax').diff).toBe(3)
     expect(get('heightMax').relative).toBeNull()
+    expect(figureDifferences(figures({ slopeRange: [0, 1e-13] }), figures({ slopeRange: [0, 2] })).find((r) => r.key === 'slopeMax')!.relative).toBeNull()
     expect(get('flatShare').diff).toBeCloseTo(-95, 9)
   })
 
