@@ -4,7 +4,7 @@
  * Replies are checked at the edge like api/schemas.ts does, so contract drift is one clear ApiError.
  */
 import { z } from 'zod'
-import type { Frame } from '../../shared/types.ts'
+import type { Frame } from '../../shared/types'
 import { ApiError, type Member } from './http'
 import { errorBody, roomRole } from './schemas'
 
