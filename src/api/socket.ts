@@ -66,7 +66,8 @@ function wrap<T>(value: unknown, Ctor: TypedCtor<T>, field: string): T {
     throw new Error(`surface.${field}: expected binary data, got ${value === null ? 'null' : typeof value}`)
   }
   const size = Ctor.BYTES_PER_ELEMENT
-  if (bytes % size !== 0) throw new Error(`surface.${field}: ${bytes} bytes is not a whole number of ${size}-byte values`)
+  if (bytes % size !== 0)
+    throw new Error(`surface.${field}: ${bytes} bytes is not a whole number of ${size}-byte values`)
   // A view into a pooled Node Buffer may start at an unaligned offset; copy it out then.
   if (offset % size !== 0) {
     buffer = new Uint8Array(buffer, offset, bytes).slice().buffer
@@ -152,7 +153,8 @@ const optString = (v: unknown): string | undefined => (typeof v === 'string' ? v
 export function readSolveState(raw: unknown): SolveStateMessage {
   const m = (raw ?? {}) as Record<string, unknown>
   if (typeof m.roomId !== 'string') throw new Error('solve:state.roomId: expected a string')
-  if (!SOLVER_STATES.includes(m.state as SolverState)) throw new Error(`solve:state.state: unknown state ${String(m.state)}`)
+  if (!SOLVER_STATES.includes(m.state as SolverState))
+    throw new Error(`solve:state.state: unknown state ${String(m.state)}`)
   return {
     roomId: m.roomId,
     version: typeof m.version === 'number' ? m.version : 0,
@@ -170,7 +172,12 @@ export function readSolveProgress(raw: unknown): SolveProgressMessage {
   if (typeof m.iteration !== 'number' || typeof m.residual !== 'number') {
     throw new Error('solve:progress: iteration and residual must be numbers')
   }
-  return { roomId: m.roomId, version: typeof m.version === 'number' ? m.version : 0, iteration: m.iteration, residual: m.residual }
+  return {
+    roomId: m.roomId,
+    version: typeof m.version === 'number' ? m.version : 0,
+    iteration: m.iteration,
+    residual: m.residual,
+  }
 }
 
 export type JoinResult = { ok: true; role: RoomRole } | { ok: false; error: { code: string; message: string } }
@@ -193,13 +200,15 @@ export interface SurfaceStream {
 /** Connects to the surface stream (same origin, session cookie) and routes messages to handlers. */
 export function connectSurfaceStream(handlers: StreamHandlers): SurfaceStream {
   const socket = io({ withCredentials: true })
-  const guard = <T>(read: (raw: unknown) => T, use: (msg: T) => void) => (raw: unknown) => {
-    try {
-      use(read(raw))
-    } catch (err) {
-      handlers.status(socket.connected, err instanceof Error ? err.message : String(err))
+  const guard =
+    <T>(read: (raw: unknown) => T, use: (msg: T) => void) =>
+    (raw: unknown) => {
+      try {
+        use(read(raw))
+      } catch (err) {
+        handlers.status(socket.connected, err instanceof Error ? err.message : String(err))
+      }
     }
-  }
   socket.on('connect', () => handlers.status(true))
   socket.on('disconnect', () => handlers.status(false))
   socket.on('connect_error', (err) => handlers.status(false, err.message))
@@ -212,7 +221,9 @@ export function connectSurfaceStream(handlers: StreamHandlers): SurfaceStream {
       socket
         .timeout(10_000)
         .emitWithAck('room:join', { roomId })
-        .then(readJoin, () => readJoin({ error: { code: 'timeout', message: 'The server did not answer the room join in 10 s.' } })),
+        .then(readJoin, () =>
+          readJoin({ error: { code: 'timeout', message: 'The server did not answer the room join in 10 s.' } }),
+        ),
     leave: (roomId) => {
       socket.emit('room:leave', { roomId })
     },

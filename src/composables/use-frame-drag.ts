@@ -48,7 +48,11 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
   const pickPoint = (vp: Viewport, ev: PointerEvent | MouseEvent) => {
     const pts = framePoints(store.frame)
     const r = vp.canvas.getBoundingClientRect()
-    const hit = nearestPoint2D({ x: ev.clientX - r.left, y: ev.clientY - r.top }, pts.map((p) => vp.project(p.point)), PICK_PX)
+    const hit = nearestPoint2D(
+      { x: ev.clientX - r.left, y: ev.clientY - r.top },
+      pts.map((p) => vp.project(p.point)),
+      PICK_PX,
+    )
     return hit ? pts[hit.index] : undefined
   }
 
@@ -69,7 +73,14 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
     store.select({ loopId: hit.loopId, pointId: hit.point.id })
     if (store.readOnly) return
     store.beginGesture()
-    drag = { loopId: hit.loopId, pointId: hit.point.id, startY: ev.clientY, startZ: hit.point.z, vertical: ev.shiftKey || ev.altKey, moved: false }
+    drag = {
+      loopId: hit.loopId,
+      pointId: hit.point.id,
+      startY: ev.clientY,
+      startZ: hit.point.z,
+      vertical: ev.shiftKey || ev.altKey,
+      moved: false,
+    }
     vp.controls().enabled = false
     vp.canvas.setPointerCapture(ev.pointerId)
     ev.preventDefault()
@@ -80,7 +91,9 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
     if (!vp || !drag) return
     drag.moved = true
     if (drag.vertical) {
-      const mpp = vp.metresPerPixel(framePoints(store.frame).find((p) => p.point.id === drag!.pointId)?.point ?? { x: 0, y: 0, z: drag.startZ })
+      const mpp = vp.metresPerPixel(
+        framePoints(store.frame).find((p) => p.point.id === drag!.pointId)?.point ?? { x: 0, y: 0, z: drag.startZ },
+      )
       queued = { z: heightFromDrag(drag.startZ, ev.clientY - drag.startY, mpp, store.snapStep, store.snapOn) }
     } else {
       const ray = vp.ray(ev)
@@ -93,7 +106,8 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
 
   function onPointerUp(ev: PointerEvent): void {
     const vp = viewport.value
-    if (press && ev.type === 'pointerup' && Math.hypot(ev.clientX - press.x, ev.clientY - press.y) < CLICK_SLOP_PX) options.onClick?.(ev)
+    if (press && ev.type === 'pointerup' && Math.hypot(ev.clientX - press.x, ev.clientY - press.y) < CLICK_SLOP_PX)
+      options.onClick?.(ev)
     press = null
     if (!drag || !vp) return
     if (frameRequest) cancelAnimationFrame(frameRequest)
@@ -110,7 +124,11 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
     if (!vp || store.readOnly || pickPoint(vp, ev)) return
     const { segments } = frameLines(store.frame)
     const r = vp.canvas.getBoundingClientRect()
-    const hit = nearestSegment2D({ x: ev.clientX - r.left, y: ev.clientY - r.top }, segments.map((s) => ({ a: vp.project(s.a), b: vp.project(s.b) })), PICK_PX)
+    const hit = nearestSegment2D(
+      { x: ev.clientX - r.left, y: ev.clientY - r.top },
+      segments.map((s) => ({ a: vp.project(s.a), b: vp.project(s.b) })),
+      PICK_PX,
+    )
     const seg = hit ? segments[hit.index] : undefined
     if (!hit || !seg) return
     const lerp = (k: 'x' | 'y' | 'z') => seg.a[k] + hit.t * (seg.b[k] - seg.a[k])
@@ -147,13 +165,15 @@ export function useFrameDrag(viewport: ShallowRef<Viewport | null>, options: Fra
     ['keydown', onKeyDown],
   ] as const
   watch(viewport, (vp, old) => {
-    for (const [name, fn] of listeners) old?.canvas.removeEventListener(name, fn as EventListener, name === 'pointerdown')
+    for (const [name, fn] of listeners)
+      old?.canvas.removeEventListener(name, fn as EventListener, name === 'pointerdown')
     // capture phase: a press on a handle must reach us before OrbitControls starts orbiting
     for (const [name, fn] of listeners) vp?.canvas.addEventListener(name, fn as EventListener, name === 'pointerdown')
   })
   onBeforeUnmount(() => {
     if (frameRequest) cancelAnimationFrame(frameRequest)
-    for (const [name, fn] of listeners) viewport.value?.canvas.removeEventListener(name, fn as EventListener, name === 'pointerdown')
+    for (const [name, fn] of listeners)
+      viewport.value?.canvas.removeEventListener(name, fn as EventListener, name === 'pointerdown')
   })
 
   return { placingHole }

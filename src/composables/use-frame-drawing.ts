@@ -11,7 +11,14 @@ import { frameLines, framePoints, frameBounds } from '../components/workbench/fr
 import type { FrameView } from '../components/workbench/frame-view'
 import type { Viewport } from './use-viewport'
 
-const COLOURS = { rigid: 0x1e2a2c, cable: 0x2f5d62, handle: 0x2f5d62, selected: 0xb4553d, grid: 0xd6cfc2, gridMajor: 0xbfb6a6 }
+const COLOURS = {
+  rigid: 0x1e2a2c,
+  cable: 0x2f5d62,
+  handle: 0x2f5d62,
+  selected: 0xb4553d,
+  grid: 0xd6cfc2,
+  gridMajor: 0xbfb6a6,
+}
 
 function disposeGroup(group: THREE.Group): void {
   group.traverse((o) => {
@@ -52,7 +59,10 @@ export function useFrameDrawing(viewport: ShallowRef<Viewport | null>, source: F
     if (key === gridKey) return
     gridKey = key
     disposeGroup(grid)
-    for (const [step, colour] of [[1, COLOURS.grid], [5, COLOURS.gridMajor]] as const) {
+    for (const [step, colour] of [
+      [1, COLOURS.grid],
+      [5, COLOURS.gridMajor],
+    ] as const) {
       const g = new THREE.GridHelper(2 * half, (2 * half) / step, colour, colour)
       g.rotation.x = Math.PI / 2
       g.position.set(cx, cy, step === 1 ? -0.002 : -0.001)
@@ -75,12 +85,20 @@ export function useFrameDrawing(viewport: ShallowRef<Viewport | null>, source: F
     cable.setAttribute('position', new THREE.BufferAttribute(lines.cable, 3))
     const r = handleRadius(view)
     // dashes scale with the frame like the handles, so a cable reads as dashed at any size
-    const dashed = new THREE.LineSegments(cable, new THREE.LineDashedMaterial({ color: COLOURS.cable, dashSize: 3 * r, gapSize: 2 * r }))
+    const dashed = new THREE.LineSegments(
+      cable,
+      new THREE.LineDashedMaterial({ color: COLOURS.cable, dashSize: 3 * r, gapSize: 2 * r }),
+    )
     dashed.computeLineDistances()
     group.add(dashed)
 
     const sel = source.selection()
-    const held = new Map(source.peers().filter((p) => p.held).map((p) => [`${p.held!.loopId}/${p.held!.pointId}`, p.color]))
+    const held = new Map(
+      source
+        .peers()
+        .filter((p) => p.held)
+        .map((p) => [`${p.held!.loopId}/${p.held!.pointId}`, p.color]),
+    )
     for (const { loopId, point } of framePoints(view)) {
       const selected = sel?.loopId === loopId && sel.pointId === point.id
       const handle = new THREE.Mesh(
@@ -91,7 +109,10 @@ export function useFrameDrawing(viewport: ShallowRef<Viewport | null>, source: F
       group.add(handle)
       const colour = held.get(`${loopId}/${point.id}`)
       if (colour) {
-        const ring = new THREE.Mesh(new THREE.TorusGeometry(r * 2.2, r * 0.35, 8, 32), new THREE.MeshBasicMaterial({ color: colour }))
+        const ring = new THREE.Mesh(
+          new THREE.TorusGeometry(r * 2.2, r * 0.35, 8, 32),
+          new THREE.MeshBasicMaterial({ color: colour }),
+        )
         ring.position.copy(handle.position)
         group.add(ring)
       }

@@ -14,7 +14,11 @@ export const COORDINATE_LIMIT = 10_000
  * Checks a typed number: finite, and within [min, max] when given. Returns an error message naming
  * the field, or undefined when the value is fine.
  */
-export function checkNumber(field: string, value: number | null, opts: { min?: number; max?: number; positive?: boolean } = {}): string | undefined {
+export function checkNumber(
+  field: string,
+  value: number | null,
+  opts: { min?: number; max?: number; positive?: boolean } = {},
+): string | undefined {
   if (value === null || !Number.isFinite(value)) return `${field}: enter a number.`
   if (opts.positive && !(value > 0)) return `${field}: must be greater than 0.`
   if (opts.min !== undefined && value < opts.min) return `${field}: must be at least ${opts.min}.`
@@ -30,7 +34,10 @@ export function useCoordinateEdit() {
   /** Sets x, y or z (m) of a point, or shows why not. */
   function setCoordinate(row: PointRow, axis: 'x' | 'y' | 'z', value: number | null): void {
     const key = `${row.key}/${axis}`
-    const error = checkNumber(`${row.loopLabel} ${row.label} ${axis}`, value, { min: -COORDINATE_LIMIT, max: COORDINATE_LIMIT })
+    const error = checkNumber(`${row.loopLabel} ${row.label} ${axis}`, value, {
+      min: -COORDINATE_LIMIT,
+      max: COORDINATE_LIMIT,
+    })
     if (error) {
       errors[key] = error
       return

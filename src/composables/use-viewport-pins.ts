@@ -24,7 +24,11 @@ export interface SurfacePick {
 }
 
 /** Where a pointer event meets the surface mesh, or null. */
-export function pickSurface(vp: Viewport, mesh: THREE.Mesh, ev: { clientX: number; clientY: number }): THREE.Vector3 | null {
+export function pickSurface(
+  vp: Viewport,
+  mesh: THREE.Mesh,
+  ev: { clientX: number; clientY: number },
+): THREE.Vector3 | null {
   if (!mesh.visible) return null
   const raycaster = new THREE.Raycaster()
   raycaster.ray.copy(vp.ray(ev))
@@ -32,7 +36,11 @@ export function pickSurface(vp: Viewport, mesh: THREE.Mesh, ev: { clientX: numbe
 }
 
 /** Wires pin markers and surface clicks; `onPick` also hears every surface pick. */
-export function useViewportPins(viewport: ShallowRef<Viewport | null>, mesh: THREE.Mesh, onPick?: (p: SurfacePick) => void) {
+export function useViewportPins(
+  viewport: ShallowRef<Viewport | null>,
+  mesh: THREE.Mesh,
+  onPick?: (p: SurfacePick) => void,
+) {
   const pins = usePinsStore()
   const workbench = useWorkbenchStore()
   const { markerAt } = usePinMarkersIn(viewport)

@@ -24,10 +24,18 @@ export interface SurfaceSource {
 export function useViewportSurface(viewport: ShallowRef<Viewport | null>, source: SurfaceSource) {
   const range = shallowRef<ColourRange | null>(null)
   const geometry = new THREE.BufferGeometry()
-  const material = new THREE.MeshLambertMaterial({ vertexColors: true, side: THREE.DoubleSide, transparent: true, opacity: 0.92 })
+  const material = new THREE.MeshLambertMaterial({
+    vertexColors: true,
+    side: THREE.DoubleSide,
+    transparent: true,
+    opacity: 0.92,
+  })
   const mesh = new THREE.Mesh(geometry, material)
   mesh.renderOrder = -1
-  const wire = new THREE.LineSegments(new THREE.WireframeGeometry(), new THREE.LineBasicMaterial({ color: 0x24484d, transparent: true, opacity: 0.12 }))
+  const wire = new THREE.LineSegments(
+    new THREE.WireframeGeometry(),
+    new THREE.LineBasicMaterial({ color: 0x24484d, transparent: true, opacity: 0.12 }),
+  )
 
   function fill(name: 'position' | 'color', data: Float32Array): void {
     const attr = geometry.getAttribute(name) as THREE.BufferAttribute | undefined
@@ -71,7 +79,13 @@ export function useViewportSurface(viewport: ShallowRef<Viewport | null>, source
     const s = source.surface()
     if (!s) return
     const colours = new Float32Array(s.vertices.length)
-    range.value = surfaceColours(colours, s.vertices, s.triangles, source.colourMode(), source.flatThreshold() ?? DEFAULT_FLAT_THRESHOLD)
+    range.value = surfaceColours(
+      colours,
+      s.vertices,
+      s.triangles,
+      source.colourMode(),
+      source.flatThreshold() ?? DEFAULT_FLAT_THRESHOLD,
+    )
     fill('color', colours)
   }
 

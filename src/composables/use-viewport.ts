@@ -139,7 +139,14 @@ export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode
     setMode(initialMode)
     resize()
     viewport.value = {
-      scene, canvas, requestRender, setMode, fit, project, ray, metresPerPixel,
+      scene,
+      canvas,
+      requestRender,
+      setMode,
+      fit,
+      project,
+      ray,
+      metresPerPixel,
       camera: () => active().cam,
       controls: () => active().ctl,
     }

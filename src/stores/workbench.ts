@@ -4,8 +4,16 @@ import type { Figures, SolverReport } from '../../shared/types'
 import * as edits from '../../shared/room-doc/edits'
 import type { EdgeKind } from '../../shared/types'
 import {
-  CAPTURE_TIMEOUT_MS, includesClock, openRoomDocument, ownClock, trackPeers,
-  type Collaboration, type HeldPoint, type Peer, type PresenceUser, type SyncStatus,
+  CAPTURE_TIMEOUT_MS,
+  includesClock,
+  openRoomDocument,
+  ownClock,
+  trackPeers,
+  type Collaboration,
+  type HeldPoint,
+  type Peer,
+  type PresenceUser,
+  type SyncStatus,
 } from '../api/collaboration'
 import type { Socket } from 'socket.io-client'
 import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
@@ -38,7 +46,11 @@ export interface SurfaceData {
   solver: SolverReport
 }
 
-const emptyFrame = (): FrameView => ({ loops: [], prestress: { warp: Number.NaN, fill: Number.NaN }, edgeLength: Number.NaN })
+const emptyFrame = (): FrameView => ({
+  loops: [],
+  prestress: { warp: Number.NaN, fill: Number.NaN },
+  edgeLength: Number.NaN,
+})
 
 export const useWorkbenchStore = defineStore('workbench', () => {
   const roomId = ref<string | null>(null)
@@ -78,7 +90,14 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     const { vertices, triangles, version, coarse, stateVector, solver } = msg
     surface.value = { vertices, triangles, version, coarse, stateVector, solver }
     figures.value = msg.figures
-    if (!coarse && version >= status.value.version) status.value = { phase: solver.converged ? 'settled' : 'unsettled', version, reason: solver.reason, residual: solver.residual, iteration: solver.iterations }
+    if (!coarse && version >= status.value.version)
+      status.value = {
+        phase: solver.converged ? 'settled' : 'unsettled',
+        version,
+        reason: solver.reason,
+        residual: solver.residual,
+        iteration: solver.iterations,
+      }
   }
 
   function onSolveState(msg: SolveStateMessage): void {
@@ -99,19 +118,33 @@ export const useWorkbenchStore = defineStore('workbench', () => {
       frame.value = readFrameView(c.doc)
       // a peer may delete the point I have selected: let go of it rather than hold a ghost
       const sel = selection.value
-      if (sel && !frame.value.loops.some((l) => l.id === sel.loopId && l.points.some((p) => p.id === sel.pointId))) select(null)
+      if (sel && !frame.value.loops.some((l) => l.id === sel.loopId && l.points.some((p) => p.id === sel.pointId)))
+        select(null)
     }
-    const undoState = (): void => { canUndo.value = c.undo.canUndo(); canRedo.value = c.undo.canRedo() }
+    const undoState = (): void => {
+      canUndo.value = c.undo.canUndo()
+      canRedo.value = c.undo.canRedo()
+    }
     c.doc.on('update', refresh)
-    c.provider.on('status', (e) => { sync.value = e.status })
-    c.provider.on('sync', (s) => { synced.value = s; refresh() })
+    c.provider.on('status', (e) => {
+      sync.value = e.status
+    })
+    c.provider.on('sync', (s) => {
+      synced.value = s
+      refresh()
+    })
     for (const ev of ['stack-item-added', 'stack-item-popped', 'stack-cleared'] as const) c.undo.on(ev, undoState)
-    cleanups.push(trackPeers(c.provider.awareness, (p) => { peers.value = p }))
+    cleanups.push(
+      trackPeers(c.provider.awareness, (p) => {
+        peers.value = p
+      }),
+    )
     const s = connectSurfaceStream({
       surface: onSurface,
       solveState: onSolveState,
       solveProgress: (m) => {
-        if (m.roomId === roomId.value && status.value.phase === 'settling') status.value = { ...status.value, iteration: m.iteration, residual: m.residual }
+        if (m.roomId === roomId.value && status.value.phase === 'settling')
+          status.value = { ...status.value, iteration: m.iteration, residual: m.residual }
       },
       status: (connected, error) => {
         streamError.value = error ?? null
@@ -195,7 +228,8 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     return ok
   }
   /** Sets prestress (kN/m) and/or element size (m). */
-  const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) => edit((c) => edits.setSettings(c.doc, s, c.origin))
+  const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) =>
+    edit((c) => edits.setSettings(c.doc, s, c.origin))
   /** Ends the current undo step, so the next edit undoes separately. */
   const stopCapturing = (): void => collab?.undo.stopCapturing()
   /**
@@ -225,9 +259,41 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   }
 
   return {
-    roomId, role, readOnly, frame, rows, selection, surface, figures, status, sync, synced, streamError,
-    colourMode, viewMode, snapOn, snapStep, peers, canUndo, canRedo, surfaceIncludesMine, socket,
-    open, close, move, insertAfter, removePoint, setEdge, addHole, removeHole, setSettings,
-    stopCapturing, beginGesture, endGesture, undo, redo, select,
+    roomId,
+    role,
+    readOnly,
+    frame,
+    rows,
+    selection,
+    surface,
+    figures,
+    status,
+    sync,
+    synced,
+    streamError,
+    colourMode,
+    viewMode,
+    snapOn,
+    snapStep,
+    peers,
+    canUndo,
+    canRedo,
+    surfaceIncludesMine,
+    socket,
+    open,
+    close,
+    move,
+    insertAfter,
+    removePoint,
+    setEdge,
+    addHole,
+    removeHole,
+    setSettings,
+    stopCapturing,
+    beginGesture,
+    endGesture,
+    undo,
+    redo,
+    select,
   }
 })

@@ -1,7 +1,15 @@
 import { describe, expect, it } from 'vitest'
 import * as THREE from 'three'
 import {
-  FLAT_CLASSES, HEIGHT_RAMP, SLOPE_SPAN, hexToRgb, rampColour, rampCss, srgbToLinear, surfaceColours, vertexSlopes,
+  FLAT_CLASSES,
+  HEIGHT_RAMP,
+  SLOPE_SPAN,
+  hexToRgb,
+  rampColour,
+  rampCss,
+  srgbToLinear,
+  surfaceColours,
+  vertexSlopes,
 } from '../../src/components/workbench/colour-maps'
 
 /** A grid of (n+1)² vertices over [0, size]² with z = f(x, y), two triangles per cell. */
@@ -87,13 +95,20 @@ describe('surface colours', () => {
       const { vertices, triangles } = gridSurface(3, 3, (x) => g * x)
       const out = new Float32Array(vertices.length)
       surfaceColours(out, vertices, triangles, 'flat', 5)
-      return FLAT_CLASSES.findIndex((c) => hexToRgb(c.hex).map(srgbToLinear).every((v, i) => Math.abs(v - out[i]!) < 1e-6))
+      return FLAT_CLASSES.findIndex((c) =>
+        hexToRgb(c.hex)
+          .map(srgbToLinear)
+          .every((v, i) => Math.abs(v - out[i]!) < 1e-6),
+      )
     }
     expect([classOf(3), classOf(8), classOf(20)]).toEqual([0, 1, 2])
   })
 
   it('reports the fixed slope span for the slope legend', () => {
     const { vertices, triangles } = gridSurface(2, 2, () => 0)
-    expect(surfaceColours(new Float32Array(vertices.length), vertices, triangles, 'slope', 5)).toEqual({ min: 0, max: SLOPE_SPAN })
+    expect(surfaceColours(new Float32Array(vertices.length), vertices, triangles, 'slope', 5)).toEqual({
+      min: 0,
+      max: SLOPE_SPAN,
+    })
   })
 })

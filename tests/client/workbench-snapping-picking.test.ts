@@ -40,7 +40,10 @@ describe('picking', () => {
       [new THREE.Vector3(0, 0, 10), new THREE.Vector3(0, 0, -1), 0],
     ]
     for (const [origin, dir, h] of cases) {
-      const expected = new THREE.Ray(origin, dir).intersectPlane(new THREE.Plane(new THREE.Vector3(0, 0, 1), -h), new THREE.Vector3())
+      const expected = new THREE.Ray(origin, dir).intersectPlane(
+        new THREE.Plane(new THREE.Vector3(0, 0, 1), -h),
+        new THREE.Vector3(),
+      )
       const got = rayPlaneZ(origin, dir, h)
       expect(expected).not.toBeNull()
       expect(got!.x).toBeCloseTo(expected!.x, 9)
@@ -69,7 +72,11 @@ describe('picking', () => {
   })
 
   it('picks the nearest handle within the tolerance only', () => {
-    const pts = [{ x: 10, y: 10 }, { x: 14, y: 10 }, { x: 100, y: 100 }]
+    const pts = [
+      { x: 10, y: 10 },
+      { x: 14, y: 10 },
+      { x: 100, y: 100 },
+    ]
     expect(nearestPoint2D({ x: 13, y: 11 }, pts, 12)?.index).toBe(1)
     expect(nearestPoint2D({ x: 50, y: 50 }, pts, 12)).toBeNull()
   })

@@ -30,8 +30,13 @@ vi.mock('../../src/api/collaboration', async (importOriginal) => {
       // the real provider announces 'sync' once the server's state has arrived; here it already has
       const provider = { awareness, on: (event: string, cb: (s: boolean) => void) => event === 'sync' && cb(true) }
       return {
-        doc, provider, origin, undo: real.createUndoManager(doc, origin), readOnly: role === 'viewer' || role === 'reviewer',
-        hold: (h: unknown) => awareness.setLocalStateField('held', h), destroy: () => doc.destroy(),
+        doc,
+        provider,
+        origin,
+        undo: real.createUndoManager(doc, origin),
+        readOnly: role === 'viewer' || role === 'reviewer',
+        hold: (h: unknown) => awareness.setLocalStateField('held', h),
+        destroy: () => doc.destroy(),
       }
     },
   }
@@ -43,7 +48,12 @@ vi.mock('../../src/api/socket', async (importOriginal) => {
     ...real,
     connectSurfaceStream: (handlers: StreamHandlers) => {
       wires.handlers = handlers
-      return { socket: {}, join: async () => ({ ok: true, role: 'editor' }), leave: () => undefined, close: () => undefined }
+      return {
+        socket: {},
+        join: async () => ({ ok: true, role: 'editor' }),
+        leave: () => undefined,
+        close: () => undefined,
+      }
     },
   }
 })
@@ -52,12 +62,29 @@ const { useWorkbenchStore } = await import('../../src/stores/workbench')
 const { CAPTURE_TIMEOUT_MS } = await import('../../src/api/collaboration')
 const user = { id: 'u1', name: 'Aru', color: '#c2571a' }
 const figures = {
-  area: 1, planArea: 1, perimeter: 4, cables: [], heightRange: [0, 0] as [number, number], slopeRange: [0, 0] as [number, number],
-  slopeHistogram: { edges: [0, 90], shares: [1] }, flatThreshold: 5, flatShare: 1, pondingPockets: [], anticlasticShare: 0,
-  reactions: [], residual: 0, minAngle: 30,
+  area: 1,
+  planArea: 1,
+  perimeter: 4,
+  cables: [],
+  heightRange: [0, 0] as [number, number],
+  slopeRange: [0, 0] as [number, number],
+  slopeHistogram: { edges: [0, 90], shares: [1] },
+  flatThreshold: 5,
+  flatShare: 1,
+  pondingPockets: [],
+  anticlasticShare: 0,
+  reactions: [],
+  residual: 0,
+  minAngle: 30,
 }
 const surface = (version: number, stateVector: Uint8Array) => ({
-  roomId: 'r1', version, stateVector, coarse: false, vertices: new Float32Array(9), triangles: new Uint32Array([0, 1, 2]), figures,
+  roomId: 'r1',
+  version,
+  stateVector,
+  coarse: false,
+  vertices: new Float32Array(9),
+  triangles: new Uint32Array([0, 1, 2]),
+  figures,
   solver: { method: 'test', iterations: 1, residual: 1e-12, converged: true, ms: 1 },
 })
 
@@ -117,7 +144,14 @@ describe('workbench store', () => {
     expect(store.figures?.area).toBe(1)
     h.solveState({ roomId: 'r2', version: 9, state: 'unsettled' })
     expect(store.status.phase).toBe('settled') // another room's message
-    h.solveState({ roomId: 'r1', version: 6, state: 'unsettled', reason: 'invalid-frame', message: 'Loop crosses itself', field: 'loops[0].points[2]' })
+    h.solveState({
+      roomId: 'r1',
+      version: 6,
+      state: 'unsettled',
+      reason: 'invalid-frame',
+      message: 'Loop crosses itself',
+      field: 'loops[0].points[2]',
+    })
     expect(store.status).toMatchObject({ phase: 'unsettled', reason: 'invalid-frame', field: 'loops[0].points[2]' })
     store.close()
   })
@@ -131,7 +165,10 @@ describe('workbench store', () => {
     expect(sel).not.toBeNull()
     const loop = (peer.getMap('frame').get('loops') as Y.Array<Y.Map<unknown>>).get(0)
     const pts = loop.get('points') as Y.Array<Y.Map<unknown>>
-    pts.delete(pts.toArray().findIndex((p) => p.get('id') === sel.pointId), 1)
+    pts.delete(
+      pts.toArray().findIndex((p) => p.get('id') === sel.pointId),
+      1,
+    )
     expect(store.rows).toHaveLength(4)
     expect(store.selection).toBeNull()
     store.close()

@@ -5,10 +5,20 @@ import { asFloat32, asUint32, readSolveProgress, readSolveState, readSurface } f
 import { listPeers, ownAwarenessChange, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
 
 const figures = {
-  area: 70.2, planArea: 64, perimeter: 32.5, cables: [{ loop: 0, edge: 1, length: 8.1, force: 24, sag: 0.4 }],
-  heightRange: [0.5, 3.2], slopeRange: [2, 41], slopeHistogram: { edges: [0, 10, 20], shares: [0.3, 0.7] },
-  flatThreshold: 5, flatShare: 0.02, pondingPockets: [], anticlasticShare: 0.97, reactions: [[0, 0, 1, 2, 3]],
-  residual: 1e-9, minAngle: 28,
+  area: 70.2,
+  planArea: 64,
+  perimeter: 32.5,
+  cables: [{ loop: 0, edge: 1, length: 8.1, force: 24, sag: 0.4 }],
+  heightRange: [0.5, 3.2],
+  slopeRange: [2, 41],
+  slopeHistogram: { edges: [0, 10, 20], shares: [0.3, 0.7] },
+  flatThreshold: 5,
+  flatShare: 0.02,
+  pondingPockets: [],
+  anticlasticShare: 0.97,
+  reactions: [[0, 0, 1, 2, 3]],
+  residual: 1e-9,
+  minAngle: 28,
 }
 const solver = { method: 'newton-height-field', iterations: 4, residual: 1e-9, converged: true, ms: 12 }
 
@@ -17,8 +27,15 @@ function message(overrides: Record<string, unknown> = {}) {
   const triangles = new Uint32Array([0, 1, 2])
   // the way socket.io hands binary to a Node client: Buffers (here sharing one pooled ArrayBuffer)
   return {
-    roomId: 'r1', version: 3, stateVector: Buffer.from([1, 5, 2]), coarse: false,
-    vertices: Buffer.from(vertices.buffer), triangles: triangles.buffer, figures, solver, ...overrides,
+    roomId: 'r1',
+    version: 3,
+    stateVector: Buffer.from([1, 5, 2]),
+    coarse: false,
+    vertices: Buffer.from(vertices.buffer),
+    triangles: triangles.buffer,
+    figures,
+    solver,
+    ...overrides,
   }
 }
 
@@ -42,18 +59,44 @@ describe('surface stream messages', () => {
   })
 
   it('names the field and the reason for malformed data', () => {
-    expect(() => asUint32(new ArrayBuffer(6), 'triangles')).toThrow('surface.triangles: 6 bytes is not a whole number of 4-byte values')
+    expect(() => asUint32(new ArrayBuffer(6), 'triangles')).toThrow(
+      'surface.triangles: 6 bytes is not a whole number of 4-byte values',
+    )
     expect(() => asFloat32('abc', 'vertices')).toThrow('surface.vertices: expected binary data')
-    expect(() => readSurface(message({ triangles: new Uint32Array([0, 1, 9]).buffer }))).toThrow('surface.triangles: vertex index 9 is out of range (3 vertices)')
+    expect(() => readSurface(message({ triangles: new Uint32Array([0, 1, 9]).buffer }))).toThrow(
+      'surface.triangles: vertex index 9 is out of range (3 vertices)',
+    )
     expect(() => readSurface(message({ figures: { ...figures, area: 'big' } }))).toThrow(/^surface\.figures\.area: /)
-    expect(() => readSurface(message({ solver: { ...solver, converged: undefined } }))).toThrow(/^surface\.solver\.converged: /)
+    expect(() => readSurface(message({ solver: { ...solver, converged: undefined } }))).toThrow(
+      /^surface\.solver\.converged: /,
+    )
   })
 
   it('reads solver states and progress, refusing unknown states', () => {
-    expect(readSolveState({ roomId: 'r1', version: 4, state: 'unsettled', reason: 'invalid-frame', message: 'Loop crosses itself', field: 'loops[0]' }))
-      .toEqual({ roomId: 'r1', version: 4, state: 'unsettled', reason: 'invalid-frame', message: 'Loop crosses itself', field: 'loops[0]' })
+    expect(
+      readSolveState({
+        roomId: 'r1',
+        version: 4,
+        state: 'unsettled',
+        reason: 'invalid-frame',
+        message: 'Loop crosses itself',
+        field: 'loops[0]',
+      }),
+    ).toEqual({
+      roomId: 'r1',
+      version: 4,
+      state: 'unsettled',
+      reason: 'invalid-frame',
+      message: 'Loop crosses itself',
+      field: 'loops[0]',
+    })
     expect(() => readSolveState({ roomId: 'r1', state: 'done' })).toThrow('solve:state.state: unknown state done')
-    expect(readSolveProgress({ roomId: 'r1', version: 4, iteration: 3, residual: 0.01 })).toEqual({ roomId: 'r1', version: 4, iteration: 3, residual: 0.01 })
+    expect(readSolveProgress({ roomId: 'r1', version: 4, iteration: 3, residual: 0.01 })).toEqual({
+      roomId: 'r1',
+      version: 4,
+      iteration: 3,
+      residual: 0.01,
+    })
     expect(() => readSolveProgress({ roomId: 'r1', iteration: '3' })).toThrow(/iteration and residual/)
   })
 })
@@ -69,7 +112,9 @@ describe('presence', () => {
     mine.states.set(peer.clientID, peer.getLocalState()!)
     mine.states.set(999, { user: { id: 'x', name: 'Mallory', color: 'red; background:url(x)' }, held: null })
     const peers = listPeers(mine)
-    expect(peers).toEqual([{ id: 'u2', name: 'Ines', color: '#3f6fb5', clientId: peer.clientID, held: { loopId: 'l1', pointId: 'p3' } }])
+    expect(peers).toEqual([
+      { id: 'u2', name: 'Ines', color: '#3f6fb5', clientId: peer.clientID, held: { loopId: 'l1', pointId: 'p3' } },
+    ])
     expect(readPresence({ user: { id: 'u', name: 'n', color: '#aabbcc' }, held: { loopId: 3 } })?.held).toBeNull()
   })
 
@@ -86,8 +131,16 @@ describe('presence', () => {
 
 describe('awareness sent to the server', () => {
   it('keeps only this client in an awareness change (peers speak for themselves)', () => {
-    expect(ownAwarenessChange(7, { added: [7, 9], updated: [], removed: [3] })).toEqual({ added: [7], updated: [], removed: [] })
+    expect(ownAwarenessChange(7, { added: [7, 9], updated: [], removed: [3] })).toEqual({
+      added: [7],
+      updated: [],
+      removed: [],
+    })
     expect(ownAwarenessChange(7, { added: [], updated: [9], removed: [3] })).toBeNull()
-    expect(ownAwarenessChange(7, { added: [], updated: [], removed: [7] })).toEqual({ added: [], updated: [], removed: [7] })
+    expect(ownAwarenessChange(7, { added: [], updated: [], removed: [7] })).toEqual({
+      added: [],
+      updated: [],
+      removed: [7],
+    })
   })
 })

@@ -75,15 +75,25 @@ export function rampCss(stops: readonly Stop[], direction = 'to right'): string 
  * the normals of the faces around it (the sum of unnormalised face cross products).
  * vertices: #V×3 (m); triangles: #T×3 indices; out: #V (degrees). Isolated vertices get 0.
  */
-export function vertexSlopes(out: Float32Array, vertices: Readonly<Float32Array>, triangles: Readonly<Uint32Array>): Float32Array {
+export function vertexSlopes(
+  out: Float32Array,
+  vertices: Readonly<Float32Array>,
+  triangles: Readonly<Uint32Array>,
+): Float32Array {
   const n = new Float64Array(vertices.length)
   for (let t = 0; t + 2 < triangles.length; t += 3) {
     const i = triangles[t]! * 3
     const j = triangles[t + 1]! * 3
     const k = triangles[t + 2]! * 3
-    const ux = vertices[j]! - vertices[i]!, uy = vertices[j + 1]! - vertices[i + 1]!, uz = vertices[j + 2]! - vertices[i + 2]!
-    const vx = vertices[k]! - vertices[i]!, vy = vertices[k + 1]! - vertices[i + 1]!, vz = vertices[k + 2]! - vertices[i + 2]!
-    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx
+    const ux = vertices[j]! - vertices[i]!,
+      uy = vertices[j + 1]! - vertices[i + 1]!,
+      uz = vertices[j + 2]! - vertices[i + 2]!
+    const vx = vertices[k]! - vertices[i]!,
+      vy = vertices[k + 1]! - vertices[i + 1]!,
+      vz = vertices[k + 2]! - vertices[i + 2]!
+    const cx = uy * vz - uz * vy,
+      cy = uz * vx - ux * vz,
+      cz = ux * vy - uy * vx
     for (const v of [i, j, k]) {
       n[v] = n[v]! + cx
       n[v + 1] = n[v + 1]! + cy
@@ -91,7 +101,9 @@ export function vertexSlopes(out: Float32Array, vertices: Readonly<Float32Array>
     }
   }
   for (let v = 0; v < out.length; v++) {
-    const nx = n[3 * v] ?? 0, ny = n[3 * v + 1] ?? 0, nz = n[3 * v + 2] ?? 0
+    const nx = n[3 * v] ?? 0,
+      ny = n[3 * v + 1] ?? 0,
+      nz = n[3 * v + 2] ?? 0
     out[v] = nx === 0 && ny === 0 && nz === 0 ? 0 : (Math.atan2(Math.hypot(nx, ny), Math.abs(nz)) * 180) / Math.PI
   }
   return out

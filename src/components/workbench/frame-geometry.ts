@@ -37,7 +37,13 @@ export function frameLines(view: Readonly<FrameView>): FrameLines {
     loop.points.forEach((p, i) => {
       const q = loop.points[(i + 1) % n]!
       if (!finite(p) || !finite(q)) return
-      segments.push({ loopId: loop.id, pointId: p.id, kind: p.edge, a: { x: p.x, y: p.y, z: p.z }, b: { x: q.x, y: q.y, z: q.z } })
+      segments.push({
+        loopId: loop.id,
+        pointId: p.id,
+        kind: p.edge,
+        a: { x: p.x, y: p.y, z: p.z },
+        b: { x: q.x, y: q.y, z: q.z },
+      })
     })
   }
   const pack = (kind: 'rigid' | 'cable'): Float32Array => {

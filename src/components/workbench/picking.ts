@@ -22,7 +22,11 @@ export function rayPlaneZ(origin: Vec3, direction: Vec3, z: number): { x: number
 }
 
 /** The nearest of `points` to `p` (pixels) within `maxDistance`, or null. */
-export function nearestPoint2D(p: Vec2, points: readonly Vec2[], maxDistance: number): { index: number; distance: number } | null {
+export function nearestPoint2D(
+  p: Vec2,
+  points: readonly Vec2[],
+  maxDistance: number,
+): { index: number; distance: number } | null {
   let best: { index: number; distance: number } | null = null
   points.forEach((q, index) => {
     const distance = Math.hypot(q.x - p.x, q.y - p.y)

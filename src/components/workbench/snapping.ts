@@ -24,7 +24,13 @@ export function snapPlan(p: { x: number; y: number }, step: number, on: boolean)
  * New height after a vertical drag: moving the pointer up by `dyPixels` (screen pixels, down
  * positive as in DOM events) raises the point by dyPixels × metresPerPixel.
  */
-export function heightFromDrag(startZ: number, dyPixels: number, metresPerPixel: number, step: number, on: boolean): number {
+export function heightFromDrag(
+  startZ: number,
+  dyPixels: number,
+  metresPerPixel: number,
+  step: number,
+  on: boolean,
+): number {
   const z = startZ - dyPixels * metresPerPixel
   return on ? snapValue(z, step) : tidy(z)
 }
