@@ -4,7 +4,7 @@
  * rotate). Frames are rendered on demand only — after a control change, a data change or a resize —
  * so an idle room costs nothing.
  */
-import { onBeforeUnmount, onMounted, shallowRef, type Ref } from 'vue'
+import { onBeforeUnmount, onMounted, ref, shallowRef, type Ref } from 'vue'
 import * as THREE from 'three'
 import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js'
 
@@ -31,12 +31,21 @@ export interface Viewport {
 /** Creates the stage inside `host` once mounted; everything is disposed on unmount. */
 export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode) {
   const viewport = shallowRef<Viewport | null>(null)
+  /** Why the stage could not be created (no WebGL), for the component to show. */
+  const failure = ref<string | null>(null)
   let teardown = (): void => {}
 
   onMounted(() => {
     const el = host.value
     if (!el) return
-    const renderer = new THREE.WebGLRenderer({ antialias: true, preserveDrawingBuffer: true })
+    let renderer: THREE.WebGLRenderer
+    try {
+      // preserveDrawingBuffer lets browser tests read the canvas pixels back
+      renderer = new THREE.WebGLRenderer({ antialias: true, preserveDrawingBuffer: true })
+    } catch (err) {
+      failure.value = `The 3D view needs WebGL, which this browser could not start (${(err as Error).message}). The tables and figures still work.`
+      return
+    }
     renderer.setPixelRatio(Math.min(window.devicePixelRatio, 2))
     renderer.setClearColor(0xf7f4ee)
     const canvas = renderer.domElement
@@ -172,5 +181,5 @@ export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode
     viewport.value = null
   })
 
-  return viewport
+  return { viewport, failure }
 }
