@@ -80,7 +80,8 @@ export function createFormFinder(): FormFinder {
     return {
       next,
       mesh,
-      ...solveOnMesh(frame, mesh, next, previous?.solved, options, !remeshable),
+      warm: previous?.solved !== undefined,
+      ...solveOnMesh(frame, mesh, next, previous && { solved: previous.solved, mesh: previous.mesh }, options, !remeshable),
     }
   }
   return {
@@ -92,6 +93,14 @@ export function createFormFinder(): FormFinder {
       const structureKey = frameStructureKey(frame)
       const sticky = cache?.structureKey === structureKey && cache.parametric
       let outcome = attempt(frame, structureKey, frameNeedsParametricMesh(frame) || sticky, options)
+      if (outcome.warm && !outcome.report.converged && outcome.report.reason !== 'cancelled') {
+        // a large move can leave the warm start too far from equilibrium for the spatial path's
+        // progress watch; a cold start costs one solve more and never does worse than a fresh room
+        cache = undefined
+        const warmMs = outcome.report.ms
+        outcome = attempt(frame, structureKey, frameNeedsParametricMesh(frame), options)
+        outcome.report = { ...outcome.report, ms: outcome.report.ms + warmMs }
+      }
       if (outcome.steep) {
         const first = outcome.report
         outcome = attempt(frame, structureKey, true, options)
@@ -131,18 +140,23 @@ function solveOnMesh(
   frame: Readonly<Frame>,
   mesh: Readonly<MembraneMesh>,
   cache: Cache,
-  solved: Float64Array | undefined,
+  previous: { solved: Float64Array | undefined; mesh: Readonly<MembraneMesh> } | undefined,
   control: EngineOptions,
   continueSteep: boolean,
 ): { vertices: Float64Array; report: SolverReport; steep: boolean } {
   const constraints = frameConstraints(mesh, frame)
   const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame)
   const start = Float64Array.from(mesh.vertices)
-  if (solved) {
+  const solved = previous?.solved
+  if (previous && solved) {
+    const before = previous.mesh.vertices
     for (let v = 0; v < constraints.isFixed.length; v++) {
-      // held vertices take the new frame; free ones resume where the last solution left them
+      // held vertices take the new frame; free ones resume where the last solution left them,
+      // carried along by the remap's smooth blend of the frame point moves (so a raised corner
+      // lifts its neighbours instead of leaving slivers next to it)
       if (constraints.isFixed[v]) continue
-      if (spatialPath) start.set(solved.subarray(3 * v, 3 * v + 3), 3 * v)
+      if (spatialPath)
+        for (let d = 0; d < 3; d++) start[3 * v + d] = solved[3 * v + d]! + mesh.vertices[3 * v + d]! - before[3 * v + d]!
       else start[3 * v + 2] = solved[3 * v + 2]!
     }
   }
@@ -166,13 +180,13 @@ function solveOnMesh(
     return { vertices: result.vertices, report, steep: false }
   }
   if (spatialPath) return spatial(start)
-  const previous = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
+  const previousHeights = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
   const problem = {
     vertices: start,
     triangles: mesh.triangles,
     isFixed: constraints.isFixed,
   }
-  const result = solveHeightField(problem, control, solved !== undefined, cache.heightSystem, previous)
+  const result = solveHeightField(problem, control, solved !== undefined, cache.heightSystem, previousHeights)
   cache.heightSystem = result.system
   const vertices = Float64Array.from(start)
   for (let v = 0; v < result.heights.length; v++) vertices[3 * v + 2] = result.heights[v]!
