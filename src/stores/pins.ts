@@ -24,20 +24,36 @@ export const usePinsStore = defineStore('pins', () => {
     return roomId.value
   }
 
+  // Changes seen (events, replies) while a list request is in flight: its reply was read before
+  // them, so they are applied again on top of it instead of being lost. Only the latest request's
+  // reply is used.
+  const inFlight = new Set<Map<string, Pin | null>>()
+  let latest = 0
+
   /** Loads every pin of a room (filters are applied in the panel, so live events fit in). */
   async function load(id: string): Promise<void> {
     if (roomId.value !== id) pins.value = []
     roomId.value = id
     loading.value = true
+    const mine = ++latest
+    const seen = new Map<string, Pin | null>()
+    inFlight.add(seen)
     try {
-      const list = await team.listPins(id)
-      if (roomId.value === id) pins.value = list
+      let list = await team.listPins(id)
+      if (roomId.value !== id || mine !== latest) return
+      for (const [pinId, pin] of seen) list = pin ? upsertPin(list, pin) : list.filter((p) => p.id !== pinId)
+      pins.value = list
     } finally {
-      loading.value = false
+      inFlight.delete(seen)
+      if (mine === latest) loading.value = false
     }
   }
 
-  const merge = (pin: Pin): Pin => ((pins.value = upsertPin(pins.value, pin)), pin)
+  function merge(pin: Pin): Pin {
+    for (const seen of inFlight) seen.set(pin.id, pin)
+    pins.value = upsertPin(pins.value, pin)
+    return pin
+  }
 
   /** Pins a comment to a point of the surface (m) solved from document version `docVersion`. */
   async function createPinAt(at: { x: number; y: number; z: number }, docVersion: number, body: string): Promise<Pin> {
@@ -67,6 +83,7 @@ export const usePinsStore = defineStore('pins', () => {
   }
 
   function dropLocal(pinId: string): void {
+    for (const seen of inFlight) seen.set(pinId, null)
     pins.value = pins.value.filter((p) => p.id !== pinId)
     if (selectedId.value === pinId) selectedId.value = null
   }
