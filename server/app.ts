@@ -84,9 +84,12 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
   })
   api.use(session.middleware, passport.initialize(), passportSession)
   api.use(csrfSynchronisedProtection)
-  api.use('/auth', authRoutes({ auth, passport, csrfToken: (req) => generateToken(req) }))
-  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource)))
   const live = lateRoomLive()
+  api.use(
+    '/auth',
+    authRoutes({ auth, passport, csrfToken: (req) => generateToken(req), onSignOut: (userId) => live.closeRoomSockets(undefined, userId) }),
+  )
+  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource)))
   api.use(teamworkRoutes({ config, dataSource, live }))
   app.use('/api', api)
   // Routers added to `api` later still run before these: they live inside the mounted router.

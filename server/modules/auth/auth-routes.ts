@@ -9,6 +9,8 @@ interface AuthRouteDeps {
   auth: AuthService
   passport: PassportInstance
   csrfToken: (req: Request) => string
+  /** Called after a sign-out, so the user's live sockets (sync, surface stream) can be closed. */
+  onSignOut?: (userId: string) => void
 }
 
 /** Sign-in failures allowed per IP + e-mail in the window (successful sign-ins do not count). */
@@ -18,7 +20,7 @@ export const SIGNIN_WINDOW_MS = 15 * 60 * 1000
 const login = (req: Request, user: PublicUser) =>
   new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())))
 
-export function authRoutes({ auth, passport, csrfToken }: AuthRouteDeps): Router {
+export function authRoutes({ auth, passport, csrfToken, onSignOut }: AuthRouteDeps): Router {
   const router = Router()
 
   const signInLimiter = rateLimit({
@@ -63,7 +65,10 @@ export function authRoutes({ auth, passport, csrfToken }: AuthRouteDeps): Router
   })
 
   router.post('/signout', async (req, res) => {
+    const userId = req.user?.id
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())))
+    // An open socket was authenticated once, at its upgrade: without this it would outlive the session.
+    if (userId) onSignOut?.(userId)
     res.status(204).end()
   })
 
