@@ -17,6 +17,8 @@ const schema = z
     // 12 in use; tests may lower it to 10 (OWASP's floor for bcrypt) to keep the suite quick.
     BCRYPT_COST: z.coerce.number().int().min(10, 'at least 10').max(15, 'at most 15').default(12),
     LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error', 'silent']).default('info'),
+    // worker threads that solve surfaces; one per core keeps the event loop free on this 2-core class
+    SOLVE_WORKERS: z.coerce.number().int().min(1, 'at least 1').max(64, 'at most 64').default(2),
   })
   .transform((env, ctx) => {
     if (!env.SESSION_SECRET && env.NODE_ENV === 'production') {
