@@ -2,7 +2,8 @@ import { computed, ref, shallowRef } from 'vue'
 import { defineStore } from 'pinia'
 import type { Figures, SolverReport } from '../../shared/types'
 import * as edits from '../../shared/room-doc/edits'
-import type { EdgeKind } from '../../shared/types'
+import { writeFrame } from '../../shared/room-doc/schema'
+import type { EdgeKind, Frame } from '../../shared/types'
 import {
   CAPTURE_TIMEOUT_MS,
   includesClock,
@@ -230,6 +231,18 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   /** Sets prestress (kN/m) and/or element size (m). */
   const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) =>
     edit((c) => edits.setSettings(c.doc, s, c.origin))
+  /**
+   * Replaces the whole frame (a restored snapshot, an imported file) in one transaction with our
+   * origin: peers see one change and one Undo brings the previous frame back. False if read-only.
+   */
+  function replaceFrame(next: Readonly<Frame>): boolean {
+    const done = edit((c) => {
+      writeFrame(c.doc, next, c.origin)
+      return true
+    })
+    if (done) select(null)
+    return done ?? false
+  }
   /** Ends the current undo step, so the next edit undoes separately. */
   const stopCapturing = (): void => collab?.undo.stopCapturing()
   /**
@@ -289,6 +302,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     addHole,
     removeHole,
     setSettings,
+    replaceFrame,
     stopCapturing,
     beginGesture,
     endGesture,

@@ -156,6 +156,33 @@ describe('workbench store', () => {
     store.close()
   })
 
+  // Yjs UndoManager docs: changes in one transaction with a tracked origin form one stack item.
+  it('restores a frame as one undo step, keeping a peer edit made afterwards', () => {
+    const store = useWorkbenchStore()
+    store.open('r1', user, 'editor')
+    const [, peer] = wires.docs as [Y.Doc, Y.Doc]
+    const before = store.rows.map((r) => [r.x, r.y, r.z])
+    store.replaceFrame(starterFrame('tent'))
+    expect(store.frame.loops.map((l) => l.role)).toEqual(['outer', 'hole'])
+    expect(store.rows).toHaveLength(16)
+    expect(store.canUndo).toBe(true)
+    store.undo()
+    expect(store.rows.map((r) => [r.x, r.y, r.z])).toEqual(before)
+    expect(store.canUndo).toBe(false) // the restore was the only step
+    movePoint(peer, store.rows[0]!.loopId, store.rows[0]!.id, { z: 1.25 })
+    store.redo()
+    expect(store.rows).toHaveLength(16)
+    store.close()
+  })
+
+  it('refuses to replace the frame for a reviewer', () => {
+    const store = useWorkbenchStore()
+    store.open('r1', user, 'reviewer')
+    expect(store.replaceFrame(starterFrame('tent'))).toBe(false)
+    expect(store.rows).toHaveLength(4)
+    store.close()
+  })
+
   it('drops the selection when a peer deletes the selected point', () => {
     const store = useWorkbenchStore()
     store.open('r1', user, 'editor')
