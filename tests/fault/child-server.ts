@@ -34,7 +34,7 @@ export function freePort(): Promise<number> {
 
 /** The test database's environment (as scripts/test.mjs sets it), with overrides. */
 export function testEnv(extra: Record<string, string> = {}): NodeJS.ProcessEnv {
-  const env = { ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'warn', ...extra }
+  const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'warn', ...extra }
   if (!String(env.DB_NAME ?? '').startsWith('veilroom_test_')) throw new Error('run through `npm test` (needs a veilroom_test_ database)')
   return env
 }
