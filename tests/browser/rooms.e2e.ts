@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, launchBrowser, type LaunchedBrowser } from '../helpers/browser'
+import { openRoomTab } from './room-tabs'
 
 // A new user's first minutes, against the real server and the API contract of issue 2: sign-up
 // errors arrive beside the field the server names (409 email_taken → field "email"); the creator of
@@ -57,6 +58,7 @@ describe('a new user signs up and looks after a room of their own', () => {
     await page.getByTestId('room-page').waitFor()
     expect(await page.getByTestId('my-role').textContent()).toContain('Owner')
     // The members list loads on its own; wait for it rather than reading it once.
+    await openRoomTab(page, 'members')
     await page.getByTestId('room-members').getByText('Nia New (you)').waitFor()
   })
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, launchBrowser, type LaunchedBrowser } from '../helpers/browser'
 import { demoPassword } from './demo-accounts'
+import { openRoomTab } from './room-tabs'
 
 // What a signed-in editor must see comes from the demo seed (issue 2): the editor is a member of
 // both demo rooms. The caution wording is the product brief's ("Cautions shown with results").
@@ -72,6 +73,7 @@ describe('signing in as the demo editor', () => {
       expect(caution).toContain('preliminary')
       expect(caution).toContain('qualified engineer')
     }
+    await openRoomTab(page, 'members')
     await page.getByTestId('room-members').getByText(/\(you\)$/).waitFor()
     expect(await page.getByTestId('room-members').getByText('(you)').count()).toBe(1)
   })

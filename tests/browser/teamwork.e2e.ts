@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { baseUrl, launchBrowser, type LaunchedBrowser } from '../helpers/browser'
 import { demoPassword } from './demo-accounts'
+import { openRoomTab } from './room-tabs'
 
 // Issue 5 end to end, two people in two browsers: the owner invites a new address, the mail lands
 // in the dev mailbox, the guest signs up through the link and accepts, pins a comment, the owner
@@ -66,6 +67,7 @@ describe('team work: invite, pins, snapshots', () => {
     await page.getByTestId('rooms-table').getByRole('link', { name: ROOM }).click()
     await page.getByTestId('room-page').waitFor()
     roomId = new URL(page.url()).pathname.split('/').pop()!
+    await openRoomTab(page, 'members')
     const form = page.getByTestId('invite-form')
     await form.locator('input[name=invite-email]').fill(GUEST)
     await page.getByTestId('send-invite').click()
@@ -107,6 +109,7 @@ describe('team work: invite, pins, snapshots', () => {
 
   it('the guest pins a comment and the owner sees it arrive live', async () => {
     await owner.page.goto(`${baseUrl()}/rooms/${roomId}`)
+    await openRoomTab(owner.page, 'pins')
     await owner.page.getByTestId('pins-panel').waitFor()
     // Clicking the 3D surface is the workbench's job; the pin goes through the same API call.
     const created = await apiCall(guest.page, 'POST', `/api/rooms/${roomId}/pins`, { x: 1.5, y: 2, z: 2.2, docVersion: 0, body: PIN_TEXT })
@@ -126,6 +129,7 @@ describe('team work: invite, pins, snapshots', () => {
     await owner.page.getByTestId('pins-resolved').click()
     await owner.page.getByTestId('pin-card').filter({ hasText: PIN_TEXT }).getByText('Resolved').waitFor()
 
+    await openRoomTab(guest.page, 'pins')
     await guest.page.getByTestId('pins-resolved').click()
     const seen = guest.page.getByTestId('pin-card').filter({ hasText: PIN_TEXT })
     await seen.getByTestId('pin-reply').filter({ hasText: 'Raised the anchor' }).waitFor({ timeout: 15_000 })
@@ -156,6 +160,7 @@ describe('team work: invite, pins, snapshots', () => {
 
   it('the owner saves two snapshots and they are listed', async () => {
     const { page } = owner
+    await openRoomTab(page, 'snapshots')
     await saveSnapshot(page, BEFORE)
     await saveSnapshot(page, AFTER)
     const table = page.getByTestId('snapshots-table')
