@@ -118,8 +118,9 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
       stream.closeWhere(roomId, userId)
     },
     close: async () => {
-      await sync.close()
+      // socket.io first: the sync endpoint's close then destroys every upgraded socket, both kinds.
       await stream.close()
+      await sync.close()
       loop.close()
       await pool.close()
       await rooms.close()

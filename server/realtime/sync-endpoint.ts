@@ -49,6 +49,7 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
   const wss = new WebSocketServer({ noServer: true, maxPayload: opts.maxPayload ?? 2 * 1024 * 1024 })
   const live = new Map<WebSocket, { roomId: string; userId: string }>()
   const alive = new WeakSet<WebSocket>()
+  let closing = false
 
   const accept = async (req: IncomingMessage, socket: Duplex, head: Buffer): Promise<void> => {
     const origin = req.headers.origin
@@ -60,8 +61,13 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
     if (!user) return refuse(socket, 401, 'Unauthorized')
     const role = await roomRoleOf(opts.access.dataSource, roomId, user.id)
     if (!role) return refuse(socket, 404, 'Not Found')
+    if (closing) return refuse(socket, 503, 'Service Unavailable')
     const room = await opts.rooms.acquire(roomId)
-    if (socket.destroyed) return void opts.rooms.release(room)
+    // The checks above wait for the database: the socket may have gone, or the server be closing.
+    if (socket.destroyed || closing) {
+      void opts.rooms.release(room)
+      return closing ? refuse(socket, 503, 'Service Unavailable') : undefined
+    }
     wss.handleUpgrade(req, socket, head, (ws) => {
       live.set(ws, { roomId, userId: user.id })
       alive.add(ws)
@@ -74,7 +80,13 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
     })
   }
 
+  // Upgraded sockets leave the http server's connection list (closeAllConnections misses them) yet
+  // keep server.close() waiting: every one is tracked here, of any path, and destroyed on close.
+  const upgraded = new Set<Duplex>()
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer): void => {
+    if (closing) return void socket.destroy()
+    upgraded.add(socket)
+    socket.once('close', () => upgraded.delete(socket))
     if (!(req.url ?? '').startsWith(PATH_PREFIX)) return
     socket.on('error', (err) => logger.debug('realtime: upgrade socket error', { err: String(err) }))
     accept(req, socket, head).catch((err: unknown) => {
@@ -106,10 +118,14 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
       }
     },
     close: async () => {
-      server.off('upgrade', onUpgrade)
+      // The upgrade handler stays attached so that late upgrades (reconnecting clients) are refused.
+      closing = true
       clearInterval(pinger)
       for (const ws of live.keys()) ws.terminate()
+      // wss.close() waits for every tracked client; none may be left open.
+      for (const ws of wss.clients) ws.terminate()
       await new Promise<void>((resolve) => wss.close(() => resolve()))
+      for (const socket of upgraded) socket.destroy()
     },
   }
 }
