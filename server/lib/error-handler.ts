@@ -14,7 +14,12 @@ interface HttpLikeError {
   type?: string
   code?: string
   message?: string
+  /** TypeORM's QueryFailedError keeps the mysql2 error here. */
+  driverError?: { code?: string }
 }
+
+// mysql2 / Node socket codes meaning "the database cannot be reached", not "the query was wrong".
+const DB_DOWN = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR', 'ER_SERVER_SHUTDOWN', 'ER_CON_COUNT_ERROR'])
 
 function toResponse(err: unknown): { status: number; body: ErrorBody } {
   if (err instanceof AppError) {
@@ -36,6 +41,9 @@ function toResponse(err: unknown): { status: number; body: ErrorBody } {
   }
   if (e.type === 'entity.too.large') {
     return { status: 413, body: { error: { code: 'too_large', message: 'The request body is too large.' } } }
+  }
+  if (DB_DOWN.has(e.code ?? e.driverError?.code ?? '')) {
+    return { status: 503, body: { error: { code: 'db_unavailable', message: 'The database is not reachable right now; nothing was saved. Try again in a moment.' } } }
   }
   return { status: 500, body: { error: { code: 'internal', message: 'Something went wrong on the server.' } } }
 }
