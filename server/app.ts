@@ -89,7 +89,7 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
     '/auth',
     authRoutes({ auth, passport, csrfToken: (req) => generateToken(req), onSignOut: (userId) => live.closeRoomSockets(undefined, userId) }),
   )
-  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource)))
+  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource), live))
   api.use(teamworkRoutes({ config, dataSource, live }))
   app.use('/api', api)
   // Routers added to `api` later still run before these: they live inside the mounted router.

@@ -110,6 +110,27 @@ describe('room input', () => {
     expect(nothing.status).toBe(400)
   })
 
+  // Starting frames: shared/room-doc/starters.ts (our own geometry); the tent is a square with a mast
+  // ring (a hole loop), the blank a 6 m square with none.
+  it('creates a room from a starting frame: the tent has a hole loop, the default is the blank square', async () => {
+    const tent = await clients.owner.post('/api/rooms', { name: 'Tent start', starter: 'tent' })
+    expect(tent.status).toBe(201)
+    const tentFrame = await clients.owner.get(`/api/rooms/${tent.body.room.id}/frame.json`)
+    expect(tentFrame.status).toBe(200)
+    const roles = (tentFrame.body.loops as { role: string; points: unknown[] }[]).map((l) => l.role)
+    expect(roles).toEqual(['outer', 'hole'])
+    expect(tentFrame.body.loops[1].points).toHaveLength(12)
+    const plain = await clients.owner.post('/api/rooms', { name: 'Plain start' })
+    const plainFrame = await clients.owner.get(`/api/rooms/${plain.body.room.id}/frame.json`)
+    expect((plainFrame.body.loops as { role: string }[]).map((l) => l.role)).toEqual(['outer'])
+  })
+
+  it('refuses an unknown starting frame, naming the field', async () => {
+    const reply = await clients.owner.post('/api/rooms', { name: 'Odd start', starter: 'dome' })
+    expect(reply.status).toBe(400)
+    expect(reply.body.error).toMatchObject({ code: 'invalid_input', field: 'starter', message: expect.stringContaining('tent') })
+  })
+
   it('accepts the limits exactly: 120-character name, 2000-character description', async () => {
     const reply = await clients.owner.post('/api/rooms', { name: 'n'.repeat(120), description: 'd'.repeat(2000) })
     expect(reply.status).toBe(201)

@@ -1,11 +1,12 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
+import type { RoomLive } from '../snapshots/room-live.js'
 import { requireRoomRole, requireUser } from './room-access.js'
 import { createRoomBody, updateRoomBody } from './rooms-schema.js'
 import type { RoomsService } from './rooms-service.js'
 
 /** /api/rooms: thin handlers; the service holds the rules, requireRoomRole the access. */
-export function roomsRoutes(dataSource: DataSource, rooms: RoomsService): Router {
+export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<RoomLive, 'ensureRoomFrame'>): Router {
   const router = Router()
   const viewer = requireRoomRole(dataSource, 'viewer')
 
@@ -15,7 +16,10 @@ export function roomsRoutes(dataSource: DataSource, rooms: RoomsService): Router
 
   router.post('/', requireUser, async (req, res) => {
     const body = createRoomBody.parse(req.body)
-    res.status(201).json({ room: await rooms.create(body, req.user!.id) })
+    const room = await rooms.create(body, req.user!.id)
+    // Through the live room, so a document already loaded by it is never overwritten behind its back.
+    await live?.ensureRoomFrame?.(room.id, body.starter)
+    res.status(201).json({ room })
   })
 
   router.get('/:id', viewer, async (req, res) => {

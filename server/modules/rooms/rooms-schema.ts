@@ -1,9 +1,17 @@
 import { z } from 'zod'
+import { STARTERS, type StarterKey } from '../../../shared/room-doc/starters.js'
 
 const name = z.string().trim().min(1, 'required').max(120, 'at most 120 characters')
 const description = z.string().trim().max(2000, 'at most 2000 characters')
 
-export const createRoomBody = z.object({ name, description: description.default('') })
+const starterKeys = STARTERS.map((s) => s.key) as [StarterKey, ...StarterKey[]]
+
+export const createRoomBody = z.object({
+  name,
+  description: description.default(''),
+  /** The starting frame written into the new room's document (shared/room-doc/starters.ts). */
+  starter: z.enum(starterKeys, { error: `one of ${starterKeys.join(', ')}` }).default('blank'),
+})
 
 export const updateRoomBody = z
   .object({ name: name.optional(), description: description.optional() })

@@ -1,5 +1,6 @@
 import type { Figures, Frame, SolverReport } from '../../../shared/types.js'
 import { AppError } from '../../lib/app-error.js'
+import type { StarterKey } from '../../../shared/room-doc/starters.js'
 
 /** The room's last settled (fine) surface, as the realtime layer keeps it. */
 export interface LatestSurface {
@@ -21,6 +22,8 @@ export interface RoomLive {
   getLatestSurface(roomId: string): Promise<LatestSurface | null>
   emitToRoom(roomId: string, event: string, payload: unknown): void
   closeRoomSockets(roomId?: string, userId?: string): void
+  /** Gives a new room's empty document a starting frame (optional: test doubles may leave it out). */
+  ensureRoomFrame?(roomId: string, starter: StarterKey): Promise<boolean>
 }
 
 /** A RoomLive whose implementation is attached once the realtime layer is up (after createApp). */
@@ -44,5 +47,7 @@ export function lateRoomLive(): LateRoomLive {
     getLatestSurface: (roomId) => (impl ? impl.getLatestSurface(roomId) : Promise.reject(unavailable())),
     emitToRoom: (roomId, event, payload) => impl?.emitToRoom(roomId, event, payload),
     closeRoomSockets: (roomId, userId) => impl?.closeRoomSockets(roomId, userId),
+    ensureRoomFrame: (roomId, starter) =>
+      impl?.ensureRoomFrame ? impl.ensureRoomFrame(roomId, starter) : Promise.reject(unavailable()),
   }
 }
