@@ -1,4 +1,5 @@
 import type { z } from 'zod'
+import type { StarterKey } from '../../shared/room-doc/starters'
 import {
   errorBody,
   replies,
@@ -135,7 +136,7 @@ export const listRooms = async (): Promise<RoomSummary[]> =>
   (await request('GET', '/api/rooms', undefined, replies.rooms)).rooms
 
 /** POST /api/rooms: I become its owner. */
-export const createRoom = async (input: { name: string; description: string }): Promise<RoomDetail> =>
+export const createRoom = async (input: { name: string; description: string; starter?: StarterKey }): Promise<RoomDetail> =>
   (await request('POST', '/api/rooms', input, replies.room)).room
 
 /** GET /api/rooms/:id. */

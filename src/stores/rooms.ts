@@ -1,4 +1,5 @@
 import { ref } from 'vue'
+import type { StarterKey } from '../../shared/room-doc/starters'
 import { defineStore } from 'pinia'
 import * as api from '../api/http'
 import type { RoomDetail, RoomSummary } from '../api/http'
@@ -23,9 +24,9 @@ export const useRoomsStore = defineStore('rooms', () => {
     }
   }
 
-  /** Create a room (I become its owner) and put it at the top of the list. */
-  async function create(name: string, description: string): Promise<RoomDetail> {
-    const room = await api.createRoom({ name: name.trim(), description: description.trim() })
+  /** Create a room (I become its owner) from a starting frame and put it at the top of the list. */
+  async function create(name: string, description: string, starter?: StarterKey): Promise<RoomDetail> {
+    const room = await api.createRoom({ name: name.trim(), description: description.trim(), ...(starter ? { starter } : {}) })
     rooms.value = [summaryOf(room), ...rooms.value.filter((r) => r.id !== room.id)]
     return room
   }
