@@ -19,6 +19,7 @@ import {
 import type { Socket } from 'socket.io-client'
 import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
 import type { RoomRole } from '../api/schemas'
+import { getUnderlayMeta, roomPath, type UnderlayMeta } from '../api/team'
 import { canEditFrame } from '../lib/roles'
 import type { ColourMode } from '../components/workbench/colour-maps'
 import { frameRows, readFrameView, type FrameView } from '../components/workbench/frame-view'
@@ -71,6 +72,12 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   const snapOn = ref(true)
   const snapStep = ref(DEFAULT_SNAP_STEP)
   const peers = ref<Peer[]>([])
+  /** The room's site plan (null: none), shown under the frame; visibility and opacity are local. */
+  const underlay = shallowRef<UnderlayMeta | null>(null)
+  const underlayVisible = ref(true)
+  const underlayOpacity = ref(0.6)
+  let underlayStamp = 0
+  const underlayUrl = ref<string | null>(null)
   const canUndo = ref(false)
   const canRedo = ref(false)
   /** Our clock after our latest edit; the surface is current for us once it includes it. */
@@ -156,6 +163,22 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     })
     stream = s
     socket.value = s.socket
+    void loadUnderlay()
+  }
+
+  /** Reads whether the room has a site plan (and its scale); a failure just leaves none shown. */
+  async function loadUnderlay(): Promise<void> {
+    const id = roomId.value
+    if (!id) return
+    const meta = await getUnderlayMeta(id).catch(() => null)
+    if (roomId.value === id) setUnderlay(meta)
+  }
+
+  /** Shows a new (or no) site plan, e.g. after the Files tab uploaded or removed one. */
+  function setUnderlay(meta: UnderlayMeta | null): void {
+    underlay.value = meta
+    // a replaced image keeps its address: a new query string makes the browser fetch it again
+    underlayUrl.value = meta && roomId.value ? `${roomPath(roomId.value)}/underlay?v=${++underlayStamp}` : null
   }
 
   async function join(s: SurfaceStream, id: string): Promise<void> {
@@ -185,6 +208,8 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     figures.value = null
     selection.value = null
     peers.value = []
+    underlay.value = null
+    underlayUrl.value = null
     status.value = { phase: 'offline', version: 0 }
     synced.value = false
   }
@@ -289,6 +314,12 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     snapOn,
     snapStep,
     peers,
+    underlay,
+    underlayUrl,
+    underlayVisible,
+    underlayOpacity,
+    loadUnderlay,
+    setUnderlay,
     canUndo,
     canRedo,
     surfaceIncludesMine,
