@@ -36,11 +36,25 @@ interface ClientResult {
   surface: number[]
 }
 
+/** What the child reports: percentiles only (the raw samples can run to megabytes). */
+interface ClientSummary {
+  edits: number
+  surfaces: number
+  update: { p50: number; p99: number; n: number }
+  surface: { p50: number; p99: number; n: number }
+}
+
 if (process.argv.includes('--clients')) {
   const job = JSON.parse(process.env.BENCH_JOB ?? '{}') as ClientJob
-  const result = await runClients(job)
-  process.stdout.write('\n' + JSON.stringify(result) + '\n')
-  process.exit(0)
+  const r = await runClients(job)
+  const summary: ClientSummary = {
+    edits: r.edits,
+    surfaces: r.surfaces,
+    update: { p50: percentile(r.update, 50), p99: percentile(r.update, 99), n: r.update.length },
+    surface: { p50: percentile(r.surface, 50), p99: percentile(r.surface, 99), n: r.surface.length },
+  }
+  // stdout to a pipe is asynchronous: exit only once the line is out.
+  process.stdout.write('\n' + JSON.stringify(summary) + '\n', () => process.exit(0))
 } else {
   await main()
 }
@@ -98,10 +112,12 @@ async function main(): Promise<void> {
           rooms,
           edits: out.edits,
           surfaces: out.surfaces,
-          updateP50: percentile(out.update, 50),
-          updateP99: percentile(out.update, 99),
-          surfaceP50: percentile(out.surface, 50),
-          surfaceP99: percentile(out.surface, 99),
+          updateP50: out.update.p50,
+          updateP99: out.update.p99,
+          updateSamples: out.update.n,
+          surfaceP50: out.surface.p50,
+          surfaceP99: out.surface.p99,
+          surfaceSamples: out.surface.n,
           /** The server process's event-loop delay over the whole scenario (connect, edit, settle), ms. */
           serverLoopDelayP99: loopDelay.percentile(99) / 1e6,
           heapGrowthMb: (process.memoryUsage().heapUsed - heapBefore) / 2 ** 20,
@@ -127,7 +143,7 @@ async function main(): Promise<void> {
   process.exit(0)
 }
 
-function clientsProcess(job: ClientJob): Promise<ClientResult> {
+function clientsProcess(job: ClientJob): Promise<ClientSummary> {
   return new Promise((resolvePromise, reject) => {
     const child = spawn(process.execPath, ['--import', 'tsx', resolve(root, 'scripts/bench-live.ts'), '--clients'], {
       env: { ...process.env, BENCH_JOB: JSON.stringify(job) },
@@ -137,7 +153,7 @@ function clientsProcess(job: ClientJob): Promise<ClientResult> {
     child.stdout.on('data', (d: Buffer) => (text += d.toString()))
     child.on('exit', (code) => {
       const last = text.trim().split('\n').at(-1) ?? ''
-      if (code === 0 && last.startsWith('{')) resolvePromise(JSON.parse(last) as ClientResult)
+      if (code === 0 && last.startsWith('{')) resolvePromise(JSON.parse(last) as ClientSummary)
       else reject(new Error(`bench clients exited with ${code}: ${text.slice(-500)}`))
     })
   })
