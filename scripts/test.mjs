@@ -31,6 +31,8 @@ if (!existsSync(resolve(root, 'node_modules'))) await run('npm', ['ci'])
 if (!filters.length && !browserOnly) {
   if (hasClientSources()) await stage('typecheck client (vue-tsc --build)', () => run('vue-tsc', ['--build', '--force']))
   await stage('typecheck server (tsc -p tsconfig.server.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.server.json']))
+  // tests also reach into the DOM (client units, page.evaluate in browser tests); the server may not
+  await stage('typecheck tests (tsc -p tsconfig.tests.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.tests.json']))
   await stage('lint (eslint)', () => run('eslint', ['.']))
 }
 

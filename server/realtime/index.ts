@@ -23,7 +23,7 @@ export interface RealtimeDeps {
   /** passport's session middleware (req.user from the session). */
   passportSession: RequestHandler
   dataSource: DataSource
-  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV' | 'HOST'> & { SOLVE_WORKERS?: number }
+  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV' | 'HOST'> & Partial<Pick<Config, 'SOLVE_WORKERS'>>
   /** Overrides for tests and the benchmark. */
   tuning?: RoomDocsOptions & { workers?: number; staleMs?: number; coarseAbove?: number }
 }
@@ -73,8 +73,7 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
   }
 
   const rooms = new RoomDocs(deps.dataSource, tuning)
-  // SOLVE_WORKERS belongs in server/config.ts; read from the environment until it is there.
-  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? (Number(process.env.SOLVE_WORKERS) || 2))
+  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
   // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
   // server, not for each of the many short-lived test servers, which start workers on first use.
   if (config.NODE_ENV !== 'test') pool.warmUp()

@@ -9,7 +9,7 @@ import { download, engineLive, roomWithCast, sendForm, startTeamworkServer, type
 const example = (name: string) => readFileSync(resolve(import.meta.dirname, '../../examples', name), 'utf8')
 const fileForm = (name: string, content: string | Buffer, field = 'file', type = 'application/octet-stream') => {
   const form = new FormData()
-  form.append(field, new Blob([content], { type }), name)
+  form.append(field, new Blob([typeof content === 'string' ? content : new Uint8Array(content)], { type }), name)
   return form
 }
 

@@ -36,7 +36,7 @@ const room = () => `/api/rooms/${cast.roomId}`
 const owner = () => cast.clients.owner
 const form = (field: string, name: string, bytes: string | Buffer, fields: Record<string, string> = {}) => {
   const f = new FormData()
-  f.append(field, new Blob([bytes]), name)
+  f.append(field, new Blob([typeof bytes === 'string' ? bytes : new Uint8Array(bytes)]), name)
   for (const [k, v] of Object.entries(fields)) f.append(k, v)
   return f
 }

@@ -5,6 +5,8 @@ import type { Room } from './room.js'
 export interface RoomDocument {
   roomId: string
   state: Buffer
+  /** Accepted updates so far (the live room's document version), counted by the server. */
+  version: number
   updatedAt: Date
   room?: Room
 }
@@ -15,6 +17,7 @@ export const RoomDocumentEntity = new EntitySchema<RoomDocument>({
   columns: {
     roomId: { type: 'char', length: 36, name: 'room_id', primary: true },
     state: { type: 'longblob' },
+    version: { type: 'int', unsigned: true },
     updatedAt: { type: 'datetime', precision: 3, name: 'updated_at', updateDate: true },
   },
   relations: {
