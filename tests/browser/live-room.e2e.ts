@@ -43,22 +43,51 @@ async function settledAfter(page: Page, after: number, includesMine = false): Pr
 
 const areaOf = async (page: Page): Promise<number> => Number(await page.getByTestId('figure-area').getAttribute('data-value'))
 
-/** Share of an image's pixels that differ clearly from the viewport background (#f7f4ee), decoded in the page. */
-async function paintedShare(page: Page, png: Buffer): Promise<number> {
-  return page.evaluate(async (b64) => {
-    // decoded from bytes: the app's content security policy does not let the page fetch data: URLs
-    const bytes = Uint8Array.from(atob(b64), (ch) => ch.charCodeAt(0))
-    const bitmap = await createImageBitmap(new Blob([bytes], { type: 'image/png' }))
+/**
+ * Share of a PNG's pixels, decoded in the page, that differ clearly from the viewport background
+ * (#f7f4ee) — or, with `red`, that are clearly red (the test site plan; no surface ramp is red).
+ */
+async function pixelShare(page: Page, png: Buffer, kind: 'painted' | 'red' = 'painted'): Promise<number> {
+  return page.evaluate(
+    async ({ b64, kind }) => {
+      // decoded from bytes: the app's content security policy does not let the page fetch data: URLs
+      const bytes = Uint8Array.from(atob(b64), (ch) => ch.charCodeAt(0))
+      const bitmap = await createImageBitmap(new Blob([bytes], { type: 'image/png' }))
+      const c = document.createElement('canvas')
+      c.width = bitmap.width
+      c.height = bitmap.height
+      const g = c.getContext('2d')!
+      g.drawImage(bitmap, 0, 0)
+      const d = g.getImageData(0, 0, c.width, c.height).data
+      let hits = 0
+      for (let i = 0; i < d.length; i += 4) {
+        const [r, gr, b] = [d[i]!, d[i + 1]!, d[i + 2]!]
+        if (kind === 'red' ? r > 200 && gr < 160 && b < 160 : Math.abs(r - 0xf7) + Math.abs(gr - 0xf4) + Math.abs(b - 0xee) > 30) hits++
+      }
+      return hits / (d.length / 4)
+    },
+    { b64: png.toString('base64'), kind },
+  )
+}
+
+/** Uploads a plain red 200×200 px site plan at 0.1 m/px with pixel (40, 160) at plan (0, 0). */
+async function uploadRedPlan(page: Page, roomId: string): Promise<number> {
+  return page.evaluate(async (roomId) => {
     const c = document.createElement('canvas')
-    c.width = bitmap.width
-    c.height = bitmap.height
+    c.width = 200
+    c.height = 200
     const g = c.getContext('2d')!
-    g.drawImage(bitmap, 0, 0)
-    const d = g.getImageData(0, 0, c.width, c.height).data
-    let painted = 0
-    for (let i = 0; i < d.length; i += 4) if (Math.abs(d[i]! - 0xf7) + Math.abs(d[i + 1]! - 0xf4) + Math.abs(d[i + 2]! - 0xee) > 30) painted++
-    return painted / (d.length / 4)
-  }, png.toString('base64'))
+    g.fillStyle = '#ff0000'
+    g.fillRect(0, 0, 200, 200)
+    const blob = await new Promise<Blob>((resolve) => c.toBlob((b) => resolve(b!), 'image/png'))
+    const form = new FormData()
+    form.append('image', blob, 'site.png')
+    const scale = { ax: 0, ay: 0, bx: 200, by: 0, distance: 20, originX: 40, originY: 160 }
+    for (const [k, v] of Object.entries(scale)) form.append(k, String(v))
+    const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
+    const res = await fetch(`/api/rooms/${roomId}/underlay`, { method: 'PUT', headers: { 'x-csrf-token': token }, body: form })
+    return res.status
+  }, roomId)
 }
 
 describe('live room: two editors and a reviewer', () => {
@@ -122,10 +151,43 @@ describe('live room: two editors and a reviewer', () => {
     const png = await canvas.screenshot({ path: 'test-results/live-room-viewport.png' })
     // our threshold: the fitted surface fills well over a tenth of the view (measured 0.197 here, 1400×900 window),
     // while the grid and frame lines alone stay far below it
-    const share = await paintedShare(page, png)
+    const share = await pixelShare(page, png)
     console.log(`viewport: ${(share * 100).toFixed(1)} % of pixels drawn over the background`)
     expect(share).toBeGreaterThan(0.1)
     expect(await page.getByTestId('caution-note').first().isVisible()).toBe(true)
+    await page.screenshot({ path: 'test-results/live-room-page.png' })
+  })
+
+  it('shows an uploaded site plan under the frame in plan view, and hides it with the Settings toggle', async () => {
+    const { page } = owner
+    const roomId = new URL(page.url()).pathname.split('/').pop()!
+    expect(await uploadRedPlan(page, roomId)).toBe(200)
+    try {
+      await page.reload()
+      await settledAfter(page, 0)
+      await page.getByTestId('view-plan').click()
+      const canvas = page.getByTestId('viewport-canvas')
+      // the texture loads after the page: poll the drawn view rather than sleep a guessed time
+      let shown = 0
+      for (let i = 0; i < 20 && shown < 0.05; i++) {
+        await page.waitForTimeout(250)
+        shown = await pixelShare(page, await canvas.screenshot(), 'red')
+      }
+      await canvas.screenshot({ path: 'test-results/live-room-underlay.png' })
+      console.log(`site plan: ${(shown * 100).toFixed(1)} % of the plan view red`)
+      // the 20 m plan around a 6–12 m frame shows a wide red margin round the surface
+      expect(shown).toBeGreaterThan(0.05)
+      await openRoomTab(page, 'settings')
+      await page.getByTestId('underlay-visible').click()
+      await page.waitForTimeout(300)
+      expect(await pixelShare(page, await canvas.screenshot(), 'red')).toBeLessThan(0.001)
+    } finally {
+      await page.evaluate(async (roomId) => {
+        const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
+        await fetch(`/api/rooms/${roomId}/underlay`, { method: 'DELETE', headers: { 'x-csrf-token': token } })
+      }, roomId)
+      await page.getByTestId('view-3d').click()
+    }
   })
 
   it('a click on the surface opens a pin draft at the picked 3D point, in the Pins tab', async () => {
