@@ -38,7 +38,8 @@ if (!filters.length && !browserOnly) {
 
 // A separate instance and a fresh database per run, so tests never see development data.
 // TEST_DB_PORT lets two checkouts run their suites side by side on one machine
-const db = { ...dbDefaults, port: Number(process.env.TEST_DB_PORT) || 3308, dataDir: resolve(root, '.data/mariadb-test') }
+const testDbPort = Number(process.env.TEST_DB_PORT) || 3308
+const db = { ...dbDefaults, port: testDbPort, dataDir: resolve(root, `.data/mariadb-test-${testDbPort}`) }
 db.database = `veilroom_test_${new Date().toISOString().replace(/\D/g, '').slice(0, 14)}_${process.pid}`
 const instance = await startDb(db)
 const env = {

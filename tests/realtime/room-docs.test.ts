@@ -59,7 +59,11 @@ describe('RoomDocs persistence', () => {
     const seen: Promise<number>[] = []
     room.relays.add(() => seen.push(rowCount(roomId)))
     const replica = replicaOf(room.doc)
-    await edit(docs, roomId, replica, 3)
+    for (let i = 0; i < 3; i++) {
+      await edit(docs, roomId, replica, 1)
+      // the count query starts at the relay; let it finish before the next update is stored
+      await Promise.all(seen)
+    }
     // At each relay, that update's row was already in the table (rows 1, 2, 3).
     expect(await Promise.all(seen)).toEqual([1, 2, 3])
     await docs.release(room)
