@@ -16,6 +16,7 @@ import { spawn } from 'node:child_process'
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { monitorEventLoopDelay } from 'node:perf_hooks'
+import { startBenchServer } from './bench-server.js'
 
 const root = resolve(import.meta.dirname, '..')
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 6)
@@ -65,29 +66,7 @@ async function main(): Promise<void> {
     const [editors, rooms] = pair.split(':').map(Number)
     return { editors: editors!, rooms: rooms! }
   })
-  // Plain-JS helper without type declarations; the specifier is a value so tsc does not look for them.
-  const dbScript = './db.mjs'
-  const { createDatabase, dbDefaults, dropDatabase, startDb } = (await import(dbScript)) as {
-    startDb: () => Promise<{ port: number }>
-    createDatabase: (o: Record<string, unknown>) => Promise<void>
-    dropDatabase: (o: { port: number; database: string }) => Promise<void>
-    dbDefaults: Record<string, unknown>
-  }
-  const db = await startDb()
-  const database = `veilroom_bench_${Date.now()}`
-  await createDatabase({ ...dbDefaults, port: db.port, database })
-  Object.assign(process.env, { DB_PORT: String(db.port), DB_NAME: database, NODE_ENV: 'development', LOG_LEVEL: 'error' })
-
-  // Imported after the environment is set: the server reads it once.
-  const { loadConfig } = await import('../server/config.js')
-  const { start } = await import('../server/main.js')
-  const { makeRoom, makeUser, signIn } = await import('../tests/realtime/live-helpers.js')
-  const running = await start({ port: 0, config: loadConfig(process.env) })
-  const people: { id: string; cookie: string }[] = []
-  for (let i = 0; i < 30; i++) {
-    const u = await makeUser(running.dataSource, `Bench${i}`)
-    people.push({ id: u.id, cookie: await signIn(running.url, u.email) })
-  }
+  const { running, people, room, close } = await startBenchServer(30, 'Bench')
 
   const results = []
   try {
@@ -97,7 +76,7 @@ async function main(): Promise<void> {
         const members = people.slice(0, perRoom)
         const jobRooms = []
         for (let r = 0; r < rooms; r++) {
-          const roomId = await makeRoom(running.dataSource, members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' })))
+          const roomId = await room(members)
           await running.realtime.ensureRoomFrame(roomId, 'blank')
           jobRooms.push({ roomId, cookies: members.map((m) => m.cookie) })
         }
@@ -133,8 +112,7 @@ async function main(): Promise<void> {
       }
     }
   } finally {
-    await running.stop()
-    await dropDatabase({ port: db.port, database })
+    await close()
   }
   mkdirSync(resolve(root, 'bench-results'), { recursive: true })
   const out = { when: new Date().toISOString(), secondsPerScenario: SECONDS, editsPerSecondPerEditor: EDITS_PER_SECOND, node: process.version, results }

@@ -16,6 +16,7 @@ import { spawn } from 'node:child_process'
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { monitorEventLoopDelay } from 'node:perf_hooks'
+import { startBenchServer } from './bench-server.js'
 
 const root = resolve(import.meta.dirname, '..')
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 5)
@@ -49,28 +50,7 @@ await main()
 
 /** The server side: ladders of steps, each step's clients in child processes. */
 async function main(): Promise<void> {
-const dbScript = './db.mjs'
-const { createDatabase, dbDefaults, dropDatabase, startDb } = (await import(dbScript)) as {
-  startDb: () => Promise<{ port: number }>
-  createDatabase: (o: Record<string, unknown>) => Promise<void>
-  dropDatabase: (o: { port: number; database: string }) => Promise<void>
-  dbDefaults: Record<string, unknown>
-}
-const db = await startDb()
-const database = `veilroom_bench_${Date.now()}`
-await createDatabase({ ...dbDefaults, port: db.port, database })
-Object.assign(process.env, { DB_PORT: String(db.port), DB_NAME: database, NODE_ENV: 'development', LOG_LEVEL: 'error' })
-// Imported after the environment is set: the server reads it once.
-const { loadConfig } = await import('../server/config.js')
-const { start } = await import('../server/main.js')
-const { makeRoom, makeUser, signIn } = await import('../tests/realtime/live-helpers.js')
-const running = await start({ port: 0, config: loadConfig(process.env) })
-
-const people: { id: string; cookie: string }[] = []
-for (let i = 0; i < 100; i++) {
-  const u = await makeUser(running.dataSource, `Load${i}`)
-  people.push({ id: u.id, cookie: await signIn(running.url, u.email) })
-}
+const { running, people, room, close } = await startBenchServer(100, 'Load')
 
 function children(job: Job): Promise<ClientResult> {
   return new Promise((done, reject) => {
@@ -98,7 +78,7 @@ async function runStep({ editorsPerRoom, rooms }: Step) {
   const members = people.slice(0, editorsPerRoom)
   const jobRooms: Job['rooms'] = []
   for (let r = 0; r < rooms; r++) {
-    const roomId = await makeRoom(running.dataSource, members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' })))
+    const roomId = await room(members)
     await running.realtime.ensureRoomFrame(roomId, 'blank')
     jobRooms.push({ roomId, cookies: members.map((m) => m.cookie) })
   }
@@ -160,8 +140,7 @@ try {
     report[ladder.name] = { held, results }
   }
 } finally {
-  await running.stop()
-  await dropDatabase({ port: db.port, database })
+  await close()
 }
 mkdirSync(resolve(root, 'bench-results'), { recursive: true })
 writeFileSync(resolve(root, 'bench-results/load.json'), JSON.stringify(report, null, 2))
