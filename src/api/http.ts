@@ -56,7 +56,9 @@ function isCsrfRefusal(err: unknown): boolean {
 
 async function call<T>(method: Method, path: string, body: unknown, reply: z.ZodType<T> | null): Promise<T> {
   const headers: Record<string, string> = { accept: 'application/json' }
-  if (body !== undefined) headers['content-type'] = 'application/json'
+  // uploads go as multipart: the browser sets that content type with its boundary
+  const form = body instanceof FormData
+  if (body !== undefined && !form) headers['content-type'] = 'application/json'
   if (method !== 'GET') headers['x-csrf-token'] = await csrf()
   let res: Response
   try {
@@ -64,7 +66,7 @@ async function call<T>(method: Method, path: string, body: unknown, reply: z.Zod
       method,
       headers,
       credentials: 'same-origin',
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : form ? body : JSON.stringify(body),
     })
   } catch {
     throw new ApiError('network', 'The Veilroom server could not be reached. Check your connection and try again.', undefined, 0)
@@ -88,11 +90,16 @@ async function readError(res: Response): Promise<ApiError> {
     const { code, message, field } = parsed.data.error
     return new ApiError(code, message, field, res.status)
   }
+  // a body cut off by a size limit may come back without our error shape
+  if (res.status === 413) return new ApiError('too_large', 'The file is too large for the server.', undefined, 413)
   return new ApiError(`http_${res.status}`, `The server answered ${res.status} ${res.statusText}`.trim(), undefined, res.status)
 }
 
-/** Send a request; a CSRF refusal (expired session) is retried once with a fresh token. */
-async function request<T>(method: Method, path: string, body: unknown, reply: z.ZodType<T> | null): Promise<T> {
+/**
+ * Send a request (JSON, or FormData for uploads); a CSRF refusal (expired session) is retried once
+ * with a fresh token. Every module in src/api sends through here.
+ */
+export async function request<T>(method: Method, path: string, body: unknown, reply: z.ZodType<T> | null): Promise<T> {
   try {
     return await call(method, path, body, reply)
   } catch (err) {

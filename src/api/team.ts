@@ -1,12 +1,12 @@
 /**
  * Team work around a room (issue 5): invites and members, pins, snapshots, files, dev mailbox.
- * Routes and reply shapes: notes/teamwork-server.md and server/modules/{invites,pins,snapshots,files}.
+ * Routes and reply shapes: server/modules/{invites,pins,snapshots,files}.
  * Replies are checked at the edge like api/schemas.ts does, so contract drift is one clear ApiError.
  */
 import { z } from 'zod'
 import type { Frame } from '../../shared/types'
-import { ApiError, type Member } from './http'
-import { errorBody, roomRole } from './schemas'
+import { ApiError, request, type Member } from './http'
+import { roomRole } from './schemas'
 
 const id = z.union([z.string().min(1), z.number().int()]).transform(String)
 const person = z.object({ id, name: z.string() }).nullable().catch(null)
@@ -92,55 +92,6 @@ const replies = {
   frame: z.object({ frame }),
   mailbox: z.object({ messages: z.array(mailMessage) }),
   underlay: z.object({ underlay: underlayMeta.nullable() }),
-  csrf: z.object({ token: z.string().min(1) }),
-}
-
-type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE'
-
-// http.ts keeps its request helper private, and it sends JSON only; this small twin adds
-// multipart bodies for uploads and shares ApiError and the error shape.
-let csrfToken: string | null = null
-
-async function send<T>(method: Method, path: string, body: unknown, schema: z.ZodType<T> | null): Promise<T> {
-  const headers: Record<string, string> = { accept: 'application/json' }
-  const form = body instanceof FormData
-  if (body !== undefined && !form) headers['content-type'] = 'application/json'
-  if (method !== 'GET') headers['x-csrf-token'] = csrfToken ??= (await send('GET', '/api/auth/csrf', undefined, replies.csrf)).token
-  let res: Response
-  try {
-    res = await fetch(path, {
-      method, headers, credentials: 'same-origin',
-      body: body === undefined ? undefined : form ? body : JSON.stringify(body),
-    })
-  } catch {
-    throw new ApiError('network', 'The Veilroom server could not be reached. Check your connection and try again.', undefined, 0)
-  }
-  if (!res.ok) {
-    const parsed = errorBody.safeParse(await res.json().catch(() => undefined))
-    if (parsed.success) throw new ApiError(parsed.data.error.code, parsed.data.error.message, parsed.data.error.field, res.status)
-    const message = res.status === 413 ? 'The file is too large for the server.' : `The server answered ${res.status} ${res.statusText}`.trim()
-    throw new ApiError(res.status === 413 ? 'too_large' : `http_${res.status}`, message, undefined, res.status)
-  }
-  if (schema === null) return undefined as T
-  const parsed = schema.safeParse(await res.json().catch(() => undefined))
-  if (!parsed.success) throw new ApiError('bad_reply', `The server's reply to ${method} ${path} was not understood.`, undefined, 0)
-  return parsed.data
-}
-
-/** Sends; a CSRF refusal (the session was renewed at sign-in or sign-up) is retried once. */
-async function request<T>(method: Method, path: string, body: unknown, schema: z.ZodType<T> | null): Promise<T> {
-  try {
-    return await send(method, path, body, schema)
-  } catch (err) {
-    if (method === 'GET' || !(err instanceof ApiError && err.status === 403 && /csrf/i.test(err.code))) throw err
-    csrfToken = null
-    return send(method, path, body, schema)
-  }
-}
-
-/** Drop the cached CSRF token (call after sign-in, sign-up, sign-out). */
-export function forgetTeamCsrf(): void {
-  csrfToken = null
 }
 
 const enc = encodeURIComponent
