@@ -146,39 +146,19 @@ function percentile(values: number[], p: number): number {
 /** The simulated editors of all rooms of one scenario (child process). */
 async function runClients(job: ClientJob): Promise<ClientResult> {
   const Y = await import('yjs')
-  const { WebsocketProvider } = await import('y-websocket')
-  const { default: WebSocket } = await import('ws')
-  const { io } = await import('socket.io-client')
+  const { connectDoc, connectStream, until } = await import('../tests/realtime/live-helpers.js')
   const { loopsOf } = await import('../shared/room-doc/schema.js')
   const { movePoint, setSettings } = await import('../shared/room-doc/edits.js')
 
   const result: ClientResult = { edits: 0, surfaces: 0, update: [], surface: [] }
   const teardown: (() => void)[] = []
   const timers: NodeJS.Timeout[] = []
-  const until = async (check: () => boolean, ms: number, what: string) => {
-    const end = Date.now() + ms
-    while (!check()) {
-      if (Date.now() > end) throw new Error(`timed out waiting for ${what}`)
-      await new Promise((r) => setTimeout(r, 20))
-    }
-  }
-  const socketClass = (cookie: string) =>
-    class extends WebSocket {
-      constructor(address: string | URL, protocols?: string | string[]) {
-        super(address, protocols, { headers: { cookie, origin: job.url } })
-      }
-    }
-
   const starts: (() => void)[] = []
   for (const { roomId, cookies } of job.rooms) {
     const clients = cookies.map((cookie) => {
-      const doc = new Y.Doc()
-      const provider = new WebsocketProvider(job.url.replace(/^http/, 'ws') + '/sync', roomId, doc, {
-        WebSocketPolyfill: socketClass(cookie) as unknown as typeof globalThis.WebSocket,
-        disableBc: true,
-      })
-      teardown.push(() => provider.destroy())
-      return { doc, provider, synced: new Promise<void>((r) => provider.once('sync', () => r())) }
+      const client = connectDoc(job.url, roomId, cookie)
+      teardown.push(client.destroy)
+      return client
     })
     await Promise.all(clients.map((c) => c.synced))
     // The blank frame is a 6 m square: h from plan area ≈ 0.866 h² × vertices (equilateral lattice).
@@ -199,7 +179,7 @@ async function runClients(job: ClientJob): Promise<ClientResult> {
         }
       })
     }
-    const observer = io(job.url, { transports: ['websocket'], extraHeaders: { cookie: cookies[0]!, origin: job.url }, forceNew: true, reconnection: false })
+    const observer = connectStream(job.url, cookies[0]!)
     teardown.push(() => observer.close())
     const surfaceSeen = new Map<number, number>()
     let ready = false

@@ -155,30 +155,19 @@ process.exit(0)
  */
 async function runClients(job: Job): Promise<ClientResult> {
   const Y = await import('yjs')
-  const { WebsocketProvider } = await import('y-websocket')
-  const { default: WebSocket } = await import('ws')
+  const { connectDoc } = await import('../tests/realtime/live-helpers.js')
   const { loopsOf } = await import('../shared/room-doc/schema.js')
   const { movePoint } = await import('../shared/room-doc/edits.js')
   const result: ClientResult = { edits: 0, update: [], clientLoopDelayP99Ms: 0 }
   const loopDelay = monitorEventLoopDelay({ resolution: 10 })
   const teardown: (() => void)[] = []
   const timers: NodeJS.Timeout[] = []
-  const socketClass = (cookie: string) =>
-    class extends WebSocket {
-      constructor(address: string | URL, protocols?: string | string[]) {
-        super(address, protocols, { headers: { cookie, origin: job.url } })
-      }
-    }
   const starts: (() => void)[] = []
   for (const { roomId, cookies } of job.rooms) {
     const clients = cookies.map((cookie) => {
-      const doc = new Y.Doc()
-      const provider = new WebsocketProvider(job.url.replace(/^http/, 'ws') + '/sync', roomId, doc, {
-        WebSocketPolyfill: socketClass(cookie) as unknown as typeof globalThis.WebSocket,
-        disableBc: true,
-      })
-      teardown.push(() => provider.destroy())
-      return { doc, provider, synced: new Promise<void>((r) => provider.once('sync', () => r())) }
+      const client = connectDoc(job.url, roomId, cookie)
+      teardown.push(client.destroy)
+      return client
     })
     await Promise.all(clients.map((c) => c.synced))
     const log = new Map<number, { clock: number; t0: number }[]>(clients.map((c) => [c.doc.clientID, []]))
