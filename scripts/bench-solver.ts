@@ -6,7 +6,7 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { loadavg } from 'node:os'
-import { createFormFinder } from '../shared/engine'
+import { createSurfaceSolver } from '../shared/engine'
 import { meshFrame } from '../shared/mesh'
 import type { Frame } from '../shared/types'
 
@@ -69,13 +69,13 @@ for (const { n: target, path, make } of targets) {
     let t = performance.now()
     const mesh = meshFrame(make(h))
     const meshMs = performance.now() - t
-    const finder = createFormFinder()
+    const solver = createSurfaceSolver()
     t = performance.now()
-    const cold = finder.solve(make(h))
+    const cold = solver.solve(make(h))
     const coldMs = performance.now() - t
     peak = Math.max(peak, rssMb())
     t = performance.now()
-    const warm = finder.solve(make(h, 0.02 * SPAN))
+    const warm = solver.solve(make(h, 0.02 * SPAN))
     const warmMs = performance.now() - t
     peak = Math.max(peak, rssMb())
     const row = {

@@ -30,7 +30,7 @@ export interface EngineResult {
   report: SolverReport
 }
 
-export interface FormFinder {
+export interface SurfaceSolver {
   /** Solve `frame` (validated here: FrameError names the field); warm when only points moved. */
   solve(frame: Readonly<Frame>, options?: EngineOptions): EngineResult
   /** Forget the cached mesh, factorisations and solution. */
@@ -56,8 +56,8 @@ interface Cache {
   spatial?: SpatialSetup
 }
 
-/** A stateful form finder for one room (one frame edited over time). */
-export function createFormFinder(): FormFinder {
+/** A stateful surface solver for one room (one frame edited over time). */
+export function createSurfaceSolver(): SurfaceSolver {
   let cache: Cache | undefined
   /** Meshes (warm when the cache allows) and solves; returns the new cache entry too. */
   const attempt = (frame: Frame, structureKey: string, parametric: boolean, options: EngineOptions) => {
@@ -203,7 +203,7 @@ function solveOnMesh(
  * Throws FrameError (with the field) for an invalid frame; MeshError when the frame cannot be meshed.
  */
 export function solveFrame(frame: Readonly<Frame>, options: EngineOptions = {}): SurfaceResult {
-  const { mesh, report } = createFormFinder().solve(frame, options)
+  const { mesh, report } = createSurfaceSolver().solve(frame, options)
   const figures = computeFigures(mesh, frame, { residual: report.residual })
   const vertices: [number, number, number][] = []
   for (let v = 0; v < mesh.vertices.length; v += 3)

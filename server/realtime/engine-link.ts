@@ -1,6 +1,6 @@
 /**
  * The engine as the live room uses it, in one place: frame validation (shared/frame) on the main
- * thread, and the stateful form finder with figures (shared/engine, shared/figures) in the workers.
+ * thread, and the stateful surface solver with figures (shared/engine, shared/figures) in the workers.
  */
 import { FrameError, parseFrameJson } from '../../shared/frame/index.js'
 import type { Frame } from '../../shared/types.js'
@@ -20,5 +20,5 @@ export function validateRoomFrame(raw: unknown): FrameCheck {
   }
 }
 
-export { createFormFinder, type FormFinder } from '../../shared/engine.js'
+export { createSurfaceSolver, type SurfaceSolver } from '../../shared/engine.js'
 export { computeFigures } from '../../shared/figures/index.js'

@@ -1,11 +1,11 @@
 /**
- * A solve worker: keeps one stateful form finder per room it is home to (warm starts), turns the
+ * A solve worker: keeps one stateful surface solver per room it is home to (warm starts), turns the
  * pool's shared cancel flag into `signal.aborted`, throttles progress to ≤ 10 messages a second and
  * sends the surface back with its typed arrays transferred.
  */
 import { parentPort } from 'node:worker_threads'
 import { starterFrame } from '../../shared/room-doc/starters.js'
-import { computeFigures, createFormFinder, type FormFinder } from './engine-link.js'
+import { computeFigures, createSurfaceSolver, type SurfaceSolver } from './engine-link.js'
 import type { FromWorker, SolveJobMessage, ToWorker } from './solve-messages.js'
 
 const PROGRESS_EVERY_MS = 100
@@ -15,15 +15,15 @@ const MAX_WARM = 8
 const port = parentPort
 if (!port) throw new Error('solve-worker.ts must run in a worker thread')
 
-const finders = new Map<string, FormFinder>()
+const solvers = new Map<string, SurfaceSolver>()
 
-function finderFor(key: string): FormFinder {
-  let finder = finders.get(key)
-  if (finder) finders.delete(key)
-  else finder = createFormFinder()
-  finders.set(key, finder)
-  while (finders.size > MAX_WARM) finders.delete(finders.keys().next().value as string)
-  return finder
+function solverFor(key: string): SurfaceSolver {
+  let solver = solvers.get(key)
+  if (solver) solvers.delete(key)
+  else solver = createSurfaceSolver()
+  solvers.set(key, solver)
+  while (solvers.size > MAX_WARM) solvers.delete(solvers.keys().next().value as string)
+  return solver
 }
 
 async function solve(job: SolveJobMessage): Promise<void> {
@@ -41,8 +41,8 @@ async function solve(job: SolveJobMessage): Promise<void> {
     post({ type: 'progress', jobId: job.jobId, iteration, residual })
   }
   try {
-    const finder = finderFor(job.coarse ? `${job.roomId}:coarse` : job.roomId)
-    const { mesh, report } = await finder.solve(job.frame, { onProgress, signal })
+    const solver = solverFor(job.coarse ? `${job.roomId}:coarse` : job.roomId)
+    const { mesh, report } = await solver.solve(job.frame, { onProgress, signal })
     const figures = computeFigures(mesh, job.frame, { residual: report.residual })
     const vertices = Float32Array.from(mesh.vertices)
     const triangles = Uint32Array.from(mesh.triangles)
@@ -62,7 +62,7 @@ function post(m: FromWorker): void {
 // A small solve at boot compiles the engine's hot paths before the first real job arrives.
 try {
   const warm = starterFrame('blank')
-  computeFigures(createFormFinder().solve(warm).mesh, warm)
+  computeFigures(createSurfaceSolver().solve(warm).mesh, warm)
 } catch {
   // A failing warm-up is not fatal: the real job reports its own error.
 }
@@ -70,7 +70,7 @@ try {
 // Jobs run one at a time: the pool never sends a second before the first has answered.
 port.on('message', (m: ToWorker) => {
   if (m.type === 'forget') {
-    finders.delete(m.roomId)
-    finders.delete(`${m.roomId}:coarse`)
+    solvers.delete(m.roomId)
+    solvers.delete(`${m.roomId}:coarse`)
   } else void solve(m)
 })

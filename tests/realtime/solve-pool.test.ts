@@ -4,7 +4,7 @@
  * stops inside the engine (its report says 'cancelled'); room affinity and the cold take-over.
  */
 import { afterAll, describe, expect, it } from 'vitest'
-import { createFormFinder } from '../../shared/engine.js'
+import { createSurfaceSolver } from '../../shared/engine.js'
 import { starterFrame } from '../../shared/room-doc/starters.js'
 import type { Frame } from '../../shared/types.js'
 import { SolvePool, type SolveOutcome } from '../../server/realtime/solve-pool.js'
@@ -29,7 +29,7 @@ describe('SolvePool', () => {
   it('returns the same surface as the engine run in this thread (float32 of the float64 result)', async () => {
     const frame = square(0.4)
     const fromPool = result(await pool.solve('same', frame).done)
-    const local = createFormFinder().solve(frame)
+    const local = createSurfaceSolver().solve(frame)
     expect(fromPool.vertices.length).toBe(local.mesh.vertices.length)
     expect(Array.from(fromPool.triangles)).toEqual(Array.from(local.mesh.triangles))
     let worst = 0

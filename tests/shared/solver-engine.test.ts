@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { createFormFinder, solveFrame } from '../../shared/engine'
+import { createSurfaceSolver, solveFrame } from '../../shared/engine'
 import { FrameError } from '../../shared/frame'
 import type { Frame } from '../../shared/types'
 
@@ -56,13 +56,13 @@ function rings(radius: number, gap: number): Frame {
 
 describe('form-finding engine', () => {
   it('re-solves warm after a frame point moves and agrees with a cold solve', () => {
-    const finder = createFormFinder()
-    const first = finder.solve(square([0, 3, 0, 3]))
+    const solver = createSurfaceSolver()
+    const first = solver.solve(square([0, 3, 0, 3]))
     expect(first.report.converged).toBe(true)
     expect(first.report.method).toBe('newton-height-field')
     const moved = square([0, 3.2, 0, 3]) // one mast head raised by 2 % of the span
-    const warm = finder.solve(moved)
-    const cold = createFormFinder().solve(moved)
+    const warm = solver.solve(moved)
+    const cold = createSurfaceSolver().solve(moved)
     expect(warm.report.converged && cold.report.converged).toBe(true)
     expect(warm.mesh.topologyKey).toBe(cold.mesh.topologyKey)
     // one minimiser, reached from two starts: equal to the solver tolerance (both residuals < 1e-10)
@@ -120,7 +120,7 @@ describe('form-finding engine', () => {
       mesh: { edgeLength: 0.15 },
       loops: [ring(0, 3, 0, 48), ring(1, 1.5, height, 24)],
     }
-    const { mesh, report } = createFormFinder().solve(frame)
+    const { mesh, report } = createSurfaceSolver().solve(frame)
     expect(report.converged).toBe(true)
     expect(report.method).toContain('surface-stress-density')
     let neck = Infinity
@@ -143,7 +143,7 @@ describe('form-finding engine', () => {
 
   it('stops with cancelled when the signal is set between iterations', () => {
     const signal = { aborted: false }
-    const result = createFormFinder().solve(rings(1, 1), {
+    const result = createSurfaceSolver().solve(rings(1, 1), {
       signal,
       onProgress: (i) => {
         if (i >= 2) signal.aborted = true
@@ -156,9 +156,9 @@ describe('form-finding engine', () => {
   it('refuses an invalid frame with the field named', () => {
     const frame = square([0, 3, 0, 3])
     frame.prestress = { warp: -1, fill: 3 }
-    expect(() => createFormFinder().solve(frame)).toThrow(FrameError)
+    expect(() => createSurfaceSolver().solve(frame)).toThrow(FrameError)
     try {
-      createFormFinder().solve(frame)
+      createSurfaceSolver().solve(frame)
     } catch (error) {
       expect((error as FrameError).message).toMatch(/prestress/)
     }
@@ -169,11 +169,11 @@ describe('warm re-solve on the spatial path', () => {
   it('settles after a large corner raise on a cable-edged sail, matching a cold solve', async () => {
     const { starterFrame } = await import('../../shared/room-doc/starters')
     const frame = starterFrame('sail')
-    const finder = createFormFinder()
-    expect(finder.solve(frame).report.converged).toBe(true)
+    const solver = createSurfaceSolver()
+    expect(solver.solve(frame).report.converged).toBe(true)
     frame.loops[0]!.points[1]!.z = 4.5 // a 1.3 m raise of one mast head, far beyond a drag step
-    const warm = finder.solve(frame)
-    const cold = createFormFinder().solve(frame)
+    const warm = solver.solve(frame)
+    const cold = createSurfaceSolver().solve(frame)
     expect(warm.report.converged).toBe(true)
     // the same equilibrium from either start; vertices may sit elsewhere on it (the spatial path
     // slides them tangentially), so compare the shape through its area and lowest cable point
