@@ -102,7 +102,7 @@ function main(): void {
     process.stdout.write(`Wrote ${args.out} (${args.format})\n`)
   }
   if (args.figures) {
-    writeFileSync(args.figures, figuresToCsv(f))
+    writeFileSync(args.figures, figuresToCsv({ frame, figures: f, solver: s, pins: [] }, CAUTION))
     process.stdout.write(`Wrote ${args.figures} (figures CSV)\n`)
   }
   if (!s.converged) process.exit(3)

@@ -1,46 +1,25 @@
-/** Figures as CSV `figure,value,unit` rows (one row per number), with the caution as a comment. */
-import type { Figures } from '../types'
+/**
+ * The figures CSV: the printed report's tables, one section per table (a "# title" line, an
+ * optional "# note" line, a header row, the rows, a blank line), numbered as the workbench numbers
+ * points and edges. Cells are the report's own text, so a spreadsheet user reads what the page shows.
+ */
+import { columnHeader, formatCell, reportTables, type ReportInput, type ReportTable } from '../report'
 
-function cell(s: string | number): string {
-  const t = String(s)
-  return /[",\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t
+function cell(s: string): string {
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
 }
 
-export function figuresToCsv(f: Readonly<Figures>): string {
-  const rows: [string, number, string][] = [
-    ['area', f.area, 'm2'],
-    ['plan area', f.planArea, 'm2'],
-    ['perimeter', f.perimeter, 'm'],
-    ['height min', f.heightRange[0], 'm'],
-    ['height max', f.heightRange[1], 'm'],
-    ['slope min', f.slopeRange[0], 'deg'],
-    ['slope max', f.slopeRange[1], 'deg'],
-    ['flat threshold', f.flatThreshold, 'deg'],
-    ['flat share', f.flatShare, '1'],
-    ['anticlastic share', f.anticlasticShare, '1'],
-    ['ponding pockets', f.pondingPockets.length, 'count'],
-    ['solver residual', f.residual, '1'],
-    ['min angle', f.minAngle, 'deg'],
-  ]
-  f.cables.forEach((c) => {
-    rows.push([`cable loop ${c.loop} edge ${c.edge} length`, c.length, 'm'])
-    rows.push([`cable loop ${c.loop} edge ${c.edge} force`, c.force, 'kN'])
-    rows.push([`cable loop ${c.loop} edge ${c.edge} sag`, c.sag, 'm'])
-  })
-  f.pondingPockets.forEach((p, i) => {
-    rows.push([`pocket ${i + 1} x`, p.x, 'm'], [`pocket ${i + 1} y`, p.y, 'm'], [`pocket ${i + 1} z`, p.z, 'm'])
-    rows.push([`pocket ${i + 1} ponded plan area`, p.area, 'm2'])
-  })
-  f.reactions.forEach(([l, p, fx, fy, fz]) => {
-    rows.push([`frame point loop ${l} point ${p} fx`, fx, 'kN'], [`frame point loop ${l} point ${p} fy`, fy, 'kN'], [`frame point loop ${l} point ${p} fz`, fz, 'kN'])
-  })
-  f.slopeHistogram.shares.forEach((s, i) => {
-    rows.push([`slope ${f.slopeHistogram.edges[i]}-${f.slopeHistogram.edges[i + 1]} deg share`, s, '1'])
-  })
-  const lines = [
-    '# Form-finding figures are preliminary: loads, stresses, ponding under load, patterning, anchors and connections are checked by a qualified engineer under local codes.',
-    'figure,value,unit',
-    ...rows.map(([a, b, c]) => [cell(a), cell(b), cell(c)].join(',')),
-  ]
-  return lines.join('\n') + '\n'
+/** One table as CSV lines; "not applicable" cells are left empty. */
+export function tableToCsv(t: Readonly<ReportTable>): string[] {
+  const lines = [`# ${t.title}`]
+  if (t.note) lines.push(`# ${t.note}`)
+  lines.push(t.columns.map((c) => cell(columnHeader(c))).join(','))
+  for (const row of t.rows) lines.push(row.map((v, i) => (v === null ? '' : cell(formatCell(v, t.columns[i]!)))).join(','))
+  return lines
+}
+
+/** Every report table, the caution first as comment lines (anyone may build from this file alone). */
+export function figuresToCsv(input: Readonly<ReportInput>, caution: string): string {
+  const sections = reportTables(input).map((t) => tableToCsv(t).join('\n'))
+  return [`# ${caution}`, ...sections].join('\n\n') + '\n'
 }

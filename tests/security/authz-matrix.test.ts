@@ -75,6 +75,7 @@ const routes: Record<string, Rule> = {
   'POST /api/rooms/:id/snapshots': 'editor',
   'GET /api/rooms/:id/snapshots/:sid': 'viewer',
   'GET /api/rooms/:id/snapshots/:sid/surface': 'viewer',
+  'GET /api/rooms/:id/surface': 'viewer',
   'DELETE /api/rooms/:id/snapshots/:sid': 'editor',
   'POST /api/rooms/:id/frame/import': 'editor',
   'PUT /api/rooms/:id/underlay': 'editor',

@@ -172,6 +172,21 @@ describe('downloads', () => {
     expect(csv.bytes.toString()).toMatch(/^# Veilroom — .*\n# Form-finding results are preliminary/)
   })
 
+  it('figures.csv carries the report tables: frame points numbered as in the workbench, forces, open pins', async () => {
+    const frame = parseFrameJson(example('hypar-sail.json'))
+    engine.setFrame({ ...frame, mesh: { edgeLength: 0.5 } })
+    const pin = await cast.clients.reviewer.post(`${room()}/pins`, { x: 1, y: 2, z: 3, docVersion: 1, body: 'Corner plate, 12 mm?' })
+    expect(pin.status).toBe(201)
+    const csv = (await download(cast.clients.viewer, `${room()}/figures.csv`)).bytes.toString()
+    const section = (title: string) => csv.split('\n\n').find((s) => s.startsWith(`# ${title}\n`))?.split('\n').filter((l) => !l.startsWith('#')) ?? []
+    const points = section('Frame points')
+    expect(points).toHaveLength(1 + frame.loops[0]!.points.length)
+    const p1 = frame.loops[0]!.points[0]!
+    expect(points[1]).toBe(`Outer P1,${p1.x.toFixed(3)},${p1.y.toFixed(3)},${p1.z.toFixed(3)},Outer E1 ${frame.loops[0]!.edges[0]!.kind}`)
+    expect(section('Forces at frame points (prestress state)')).toHaveLength(1 + frame.loops[0]!.points.length)
+    expect(section('Open pins')[1]).toMatch(/^1,1\.00,2\.00,3\.00,[^,]+,\d{4}-\d\d-\d\d \d\d:\d\d UTC,"Corner plate, 12 mm\?",$/)
+  })
+
   it('exports a snapshot the same way, named after room and snapshot', async () => {
     const sail = parseFrameJson(example('hypar-sail.json'))
     const frame = { ...sail, mesh: { edgeLength: 0.5 }, loops: [{ ...sail.loops[0]!, points: sail.loops[0]!.points.map((p, i) => (i === 1 ? { ...p, z: 4.25 } : p)) }] }

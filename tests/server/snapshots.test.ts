@@ -87,6 +87,19 @@ describe('snapshots', () => {
     expect(area).toBeCloseTo(snapshot.figures.area, 4)
   })
 
+  it('gives the current settled state with the frame it was solved from (for an unsaved report)', async () => {
+    const frame = scherkFrame(20)
+    engine.setFrame(frame)
+    const live = (await engine.live.getLatestSurface())!
+    const current = await cast.clients.viewer.get(`/api/rooms/${cast.roomId}/surface`)
+    expect(current.status).toBe(200)
+    expect(current.body.frame).toEqual(frame)
+    expect(current.body.figures).toEqual(live.figures)
+    expect(current.body.solver).toEqual(live.solver)
+    expect(current.body.triangles).toHaveLength(live.triangles.length / 3)
+    expect(current.body.caution).toMatch(/preliminary/)
+  })
+
   it('refuses when the latest edit is not settled yet, and deletes (editor and up)', async () => {
     engine.setFrame(scherkFrame(20))
     const ok = await cast.clients.owner.post(snaps(), { name: 'coarse boundary' })
@@ -95,6 +108,8 @@ describe('snapshots', () => {
     const stale = await cast.clients.owner.post(snaps(), { name: 'stale' })
     expect(stale.status).toBe(409)
     expect(stale.body.error.code).toBe('no_surface')
+    // The unsaved report's source refuses the same way: its frame table would not match its surface.
+    expect((await cast.clients.viewer.get(`/api/rooms/${cast.roomId}/surface`)).body.error.code).toBe('no_surface')
     expect((await cast.clients.reviewer.delete(`${snaps()}/${ok.body.snapshot.id}`)).status).toBe(403)
     expect((await cast.clients.editor.delete(`${snaps()}/${ok.body.snapshot.id}`)).status).toBe(204)
     expect((await cast.clients.viewer.get(`${snaps()}/${ok.body.snapshot.id}`)).body.error.code).toBe('snapshot_not_found')

@@ -45,12 +45,11 @@ describe('exports', () => {
     expect((stl.match(/vertex /g) ?? []).length).toBe(3 * result.triangles.length)
   })
 
-  it('figures CSV: header, caution comment, one row per number', () => {
-    const csv = figuresToCsv(result.figures).trim().split('\n')
-    expect(csv[0]).toMatch(/^# .*qualified engineer/)
-    expect(csv[1]).toBe('figure,value,unit')
-    const area = csv.find((l) => l.startsWith('area,'))!.split(',')
-    expect(Number(area[1])).toBeCloseTo(result.figures.area, 9)
-    expect(csv.filter((l) => l.startsWith('frame point')).length).toBe(3 * frame.loops[0]!.points.length)
+  it('figures CSV: caution first, then the report tables with their figures and frame points', () => {
+    const csv = figuresToCsv({ frame, figures: result.figures, solver: report, pins: [] }, 'Checked by a qualified engineer.').trim().split('\n')
+    expect(csv[0]).toBe('# Checked by a qualified engineer.')
+    const area = csv.find((l) => l.startsWith('Fabric area,'))!.split(',')
+    expect(Number(area[1])).toBeCloseTo(result.figures.area, 2)
+    expect(csv.filter((l) => l.startsWith('Outer P')).length).toBe(2 * frame.loops[0]!.points.length)
   })
 })

@@ -1,7 +1,8 @@
 import type { Response } from 'express'
 import { figuresToCsv, toObj, toStl } from '../../../shared/export/index.js'
 import { frameToJson } from '../../../shared/frame/index.js'
-import type { Figures, Frame, SurfaceResult } from '../../../shared/types.js'
+import type { ReportPin } from '../../../shared/report/index.js'
+import type { Frame, SurfaceResult } from '../../../shared/types.js'
 import { CAUTION, cautionLines } from './caution.js'
 
 export type DownloadKind = 'frame.json' | 'surface.obj' | 'surface.stl' | 'figures.csv'
@@ -30,8 +31,16 @@ export function frameDownload(frame: Readonly<Frame>): string {
   return JSON.stringify({ ...file, caution: CAUTION }, null, 2) + '\n'
 }
 
+/** What a download is made from; figures.csv needs the frame, the surface and the open pins. */
+export interface DownloadData {
+  title: string
+  frame?: Frame
+  surface?: SurfaceResult
+  pins?: ReportPin[]
+}
+
 /** The body and content type of one download; OBJ and CSV start with the caution as comments. */
-export function renderDownload(kind: DownloadKind, data: { title: string; frame?: Frame; surface?: SurfaceResult; figures?: Figures }): { body: string; type: string } {
+export function renderDownload(kind: DownloadKind, data: DownloadData): { body: string; type: string } {
   const header = `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n${cautionLines('# ')}`
   switch (kind) {
     case 'frame.json':
@@ -42,7 +51,11 @@ export function renderDownload(kind: DownloadKind, data: { title: string; frame?
       // ASCII STL has no comment syntax: the caution rides in the solid's name line.
       return { body: toStl(data.surface!, `veilroom_surface PRELIMINARY form-finding result: ${CAUTION}`), type: 'model/stl' }
     case 'figures.csv':
-      return { body: header + figuresToCsv(data.figures!), type: 'text/csv; charset=utf-8' }
+      return {
+        body: `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n` +
+          figuresToCsv({ frame: data.frame!, figures: data.surface!.figures, solver: data.surface!.solver, pins: data.pins ?? [] }, CAUTION),
+        type: 'text/csv; charset=utf-8',
+      }
   }
 }
 

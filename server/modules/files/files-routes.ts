@@ -2,6 +2,8 @@ import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import { RoomEntity } from '../../db/entities/index.js'
 import { AppError } from '../../lib/app-error.js'
+import { pinView } from '../pins/pins-service.js'
+import { pinsRepository } from '../pins/pins-repository.js'
 import { requireRoomRole } from '../rooms/room-access.js'
 import type { RoomLive } from '../snapshots/room-live.js'
 import { roomIdOf, snapshotId } from '../snapshots/snapshots-routes.js'
@@ -21,6 +23,9 @@ export function filesRoutes(dataSource: DataSource, live: RoomLive, snapshots: S
   const underlay = underlayService(dataSource)
   const frameUpload = singleUpload('file', FRAME_FILE_BYTES, 3)
   const imageUpload = singleUpload('image', UNDERLAY_BYTES, 7)
+  const pinsRepo = pinsRepository(dataSource)
+  /** Open pins, oldest first: the report and the figures CSV number them in this order. */
+  const openPins = async (roomId: string) => (await pinsRepo.list(roomId, { resolved: false })).map(pinView)
   const roomName = async (roomId: string) => (await dataSource.getRepository(RoomEntity).findOneBy({ id: roomId }))?.name ?? 'room'
 
   router.post('/rooms/:id/frame/import', editor, async (req, res) => {
@@ -61,17 +66,23 @@ export function filesRoutes(dataSource: DataSource, live: RoomLive, snapshots: S
         if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame to download yet.')
         return sendDownload(res, kind, [name], renderDownload(kind, { title: name, frame }))
       }
+      if (kind === 'figures.csv') {
+        // The report's tables need the frame the surface was solved from, not a newer edit.
+        const { frame, surface: s } = await snapshots.current(roomId)
+        const data = { title: name, frame, surface: surfaceResult(s, s.figures), pins: await openPins(roomId) }
+        return sendDownload(res, kind, [name], renderDownload(kind, data))
+      }
       const s = await live.getLatestSurface(roomId)
       if (!s) throw new AppError('no_surface', 409, 'There is no settled surface to download yet: wait until the solver reports "settled".')
-      const surface = surfaceResult(s, s.figures)
-      sendDownload(res, kind, [name], renderDownload(kind, { title: name, surface, figures: s.figures }))
+      sendDownload(res, kind, [name], renderDownload(kind, { title: name, surface: surfaceResult(s, s.figures) }))
     })
 
     router.get(`/rooms/:id/snapshots/:sid/${kind}`, viewer, async (req, res) => {
       const roomId = roomIdOf(req.params.id)
       const name = await roomName(roomId)
       const s = await snapshots.full(roomId, snapshotId(req.params.sid))
-      const data = { title: `${name} — snapshot "${s.name}"`, frame: s.frame, surface: surfaceResult(s.surface, s.figures), figures: s.figures }
+      const pins = kind === 'figures.csv' ? await openPins(roomId) : []
+      const data = { title: `${name} — snapshot "${s.name}"`, frame: s.frame, surface: surfaceResult(s.surface, s.figures), pins }
       sendDownload(res, kind, [name, s.name], renderDownload(kind, data))
     })
   }

@@ -28,6 +28,12 @@ export function snapshotsRoutes(dataSource: DataSource, snapshots: SnapshotsServ
     res.status(201).json({ snapshot: await snapshots.create(roomIdOf(req.params.id), body, req.user!.id) })
   })
 
+  // The current settled state, for a report marked unsaved: the frame with the surface solved from it.
+  router.get('/rooms/:id/surface', viewer, async (req, res) => {
+    const { frame, surface } = await snapshots.current(roomIdOf(req.params.id))
+    res.json({ frame, ...surfaceResult(surface, surface.figures), caution: CAUTION })
+  })
+
   router.get('/rooms/:id/snapshots/:sid', viewer, async (req, res) => {
     res.json({ snapshot: await snapshots.get(roomIdOf(req.params.id), snapshotId(req.params.sid)) })
   })

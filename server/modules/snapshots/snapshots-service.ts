@@ -3,7 +3,7 @@ import type { DataSource } from 'typeorm'
 import type { Figures, Frame, SurfaceResult } from '../../../shared/types.js'
 import type { Snapshot, User } from '../../db/entities/index.js'
 import { AppError, notFound } from '../../lib/app-error.js'
-import type { RoomLive } from './room-live.js'
+import type { LatestSurface, RoomLive } from './room-live.js'
 import type { CreateSnapshotBody } from './snapshots-schema.js'
 import { snapshotsRepository } from './snapshots-repository.js'
 import { decodeSurface, encodeSurface, type StoredSurface } from './surface-codec.js'
@@ -44,7 +44,23 @@ export function snapshotsService(dataSource: DataSource, live: Pick<RoomLive, 'g
     return s
   }
 
+  /** The room's frame with the settled surface solved from it; 409 while there is none or it lags an edit. */
+  async function current(roomId: string): Promise<{ frame: Frame; surface: LatestSurface }> {
+    const { frame, version } = await live.getRoomFrame(roomId)
+    if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame yet.')
+    const surface = await live.getLatestSurface(roomId)
+    if (!surface || !surface.solver.converged) {
+      throw new AppError('no_surface', 409, 'There is no settled surface yet: wait until the solver reports "settled".')
+    }
+    if (surface.version !== version) {
+      throw new AppError('no_surface', 409, 'The surface is still settling after the latest edit: try again once it is settled.')
+    }
+    return { frame, surface }
+  }
+
   return {
+    current,
+
     async list(roomId: string) {
       const rows = await repo.list(roomId)
       return rows.map((s) => ({ ...head(s), figures: figuresSummary(s.figures as Figures) }))
@@ -52,15 +68,7 @@ export function snapshotsService(dataSource: DataSource, live: Pick<RoomLive, 'g
 
     /** Saves the current frame with its settled surface; 409 when the surface does not match it yet. */
     async create(roomId: string, input: CreateSnapshotBody, authorId: string) {
-      const { frame, version } = await live.getRoomFrame(roomId)
-      if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame to save yet.')
-      const surface = await live.getLatestSurface(roomId)
-      if (!surface || !surface.solver.converged) {
-        throw new AppError('no_surface', 409, 'There is no settled surface to save yet: wait until the solver reports "settled".')
-      }
-      if (surface.version !== version) {
-        throw new AppError('no_surface', 409, 'The surface is still settling after the latest edit: save again once it is settled.')
-      }
+      const { frame, surface } = await current(roomId)
       const id = randomUUID()
       const blob = encodeSurface({ vertices: surface.vertices, triangles: surface.triangles, solver: surface.solver })
       await repo.insert({ id, roomId, name: input.name, note: input.note, authorId, frame, surface: blob, figures: surface.figures })

@@ -1,0 +1,17 @@
+/**
+ * The numbering a person reads, the same in the workbench, the report and the figures CSV:
+ * loops are "Outer", then "Hole 1", "Hole 2", … in frame order; points "P1"… and edges "E1"… are
+ * 1-based within their loop, edge Ei joining Pi to Pi+1 (the last wraps to P1).
+ */
+
+/** Loop names by frame loop index. */
+export function loopNames(loops: readonly { role: 'outer' | 'hole' }[]): string[] {
+  let hole = 0
+  return loops.map((l) => (l.role === 'outer' ? 'Outer' : `Hole ${++hole}`))
+}
+
+/** "Outer P3" for frame point index 2 of loop "Outer". */
+export const pointName = (loop: string, point: number): string => `${loop} P${point + 1}`
+
+/** "Hole 1 E4" for edge index 3 of loop "Hole 1". */
+export const edgeName = (loop: string, edge: number): string => `${loop} E${edge + 1}`
