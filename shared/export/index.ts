@@ -1,3 +1,7 @@
 export { toObj, toStl } from './mesh-formats'
 export { figuresToCsv } from './figures-csv'
 export { toSurfaceResult, surfaceResultToJson } from './surface-result'
+export { patternToDxf } from './pattern-dxf'
+export { patternToSvg } from './pattern-svg'
+export { cuttingSheetHtml } from './cutting-sheet'
+export { layoutStrips } from './pattern-layout'
