@@ -32,7 +32,7 @@ function frame(edgeLength: number, lift = 0): Frame {
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: { warp: 3, fill: 3 },
+    prestress: { warp: 3, fill: 3, warpAngle: 0 },
     mesh: { edgeLength },
     loops: [
       {

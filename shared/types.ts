@@ -31,7 +31,12 @@ export interface Frame {
   format: 'veilroom-frame'
   version: 1
   units: 'm'
-  prestress: { warp: number; fill: number }
+  /**
+   * Membrane prestress, kN/m: warp along the warp direction, fill across it. warpAngle: the warp
+   * direction in plan, degrees counter-clockwise from +x (0 by default; only its value mod 180
+   * matters), projected onto the surface by the solver. warp = fill gives a minimal surface.
+   */
+  prestress: { warp: number; fill: number; warpAngle: number }
   mesh: { edgeLength: number }
   loops: FrameLoop[]
 }

@@ -4,7 +4,7 @@ import { FrameError } from './frame-error'
 import { DEFAULT_PRESTRESS, type FrameFile } from './schema'
 
 /**
- * Fill defaults: prestress 3 kN/m both ways; edgeLength = plan diagonal / 40; edges all rigid;
+ * Fill defaults: prestress 3 kN/m both ways, warp direction along +x (warpAngle 0); edgeLength = plan diagonal / 40; edges all rigid;
  * ids `p<n>` for the outer loop and `h<loop>p<n>` for holes (1-based). Rigid edges drop a tension.
  */
 export function normaliseFrameFile(file: Readonly<FrameFile>): Frame {
@@ -39,7 +39,9 @@ export function normaliseFrameFile(file: Readonly<FrameFile>): Frame {
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: file.prestress ?? { warp: DEFAULT_PRESTRESS, fill: DEFAULT_PRESTRESS },
+    prestress: file.prestress
+      ? { warp: file.prestress.warp, fill: file.prestress.fill, warpAngle: file.prestress.warpAngle ?? 0 }
+      : { warp: DEFAULT_PRESTRESS, fill: DEFAULT_PRESTRESS, warpAngle: 0 },
     mesh: file.mesh ?? { edgeLength: diagonal > 0 ? diagonal / 40 : 1 },
     loops,
   }

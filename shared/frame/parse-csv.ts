@@ -12,7 +12,7 @@ import type { FrameFile } from './schema'
 const COLUMNS = ['loop', 'x', 'y', 'z', 'edge', 'tension'] as const
 
 export interface CsvFrameOptions {
-  prestress?: { warp: number; fill: number }
+  prestress?: { warp: number; fill: number; warpAngle?: number }
   edgeLength?: number
 }
 

@@ -33,7 +33,7 @@ export const frameFileSchema = z.object({
   format: z.literal('veilroom-frame').optional(),
   version: z.literal(1).optional(),
   units: z.literal('m').optional(),
-  prestress: z.object({ warp: finite, fill: finite }).optional(),
+  prestress: z.object({ warp: finite, fill: finite, warpAngle: finite.optional() }).optional(),
   mesh: z.object({ edgeLength: finite }).optional(),
   loops: z.array(frameLoopSchema).min(1).max(64),
 })

@@ -7,7 +7,7 @@ export function frameToJson(frame: Readonly<Frame>): string {
     format: frame.format,
     version: frame.version,
     units: frame.units,
-    prestress: { warp: frame.prestress.warp, fill: frame.prestress.fill },
+    prestress: { warp: frame.prestress.warp, fill: frame.prestress.fill, warpAngle: frame.prestress.warpAngle },
     mesh: { edgeLength: frame.mesh.edgeLength },
     loops: frame.loops.map((l) => ({
       role: l.role,

@@ -73,6 +73,9 @@ export function validateFrame(frame: Readonly<Frame>): Frame {
 function checkPhysics(frame: Readonly<Frame>): void {
   if (!(frame.prestress.warp > 0)) throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.warp})`, 'prestress.warp')
   if (!(frame.prestress.fill > 0)) throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.fill})`, 'prestress.fill')
+  if (!Number.isFinite(frame.prestress.warpAngle)) {
+    throw new FrameError('prestress', `must be an angle in degrees from +x (got ${frame.prestress.warpAngle})`, 'prestress.warpAngle')
+  }
   if (!(frame.mesh.edgeLength > 0)) {
     throw new FrameError('edge-length', `must be > 0 m (got ${frame.mesh.edgeLength})`, 'mesh.edgeLength')
   }

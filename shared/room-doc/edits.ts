@@ -89,14 +89,19 @@ export function removeHole(doc: Y.Doc, loopId: string, origin?: unknown): boolea
   return true
 }
 
-/** Sets the membrane prestress (kN/m) and/or the target element size (m). */
-export function setSettings(doc: Y.Doc, settings: { warp?: number; fill?: number; edgeLength?: number }, origin?: unknown): void {
+/** Sets the membrane prestress (kN/m), the warp direction (degrees from +x) and/or the element size (m). */
+export function setSettings(
+  doc: Y.Doc,
+  settings: { warp?: number; fill?: number; warpAngle?: number; edgeLength?: number },
+  origin?: unknown,
+): void {
   doc.transact(() => {
     const root = frameMap(doc)
     const prestress = root.get('prestress') as Y.Map<number> | undefined
     const mesh = root.get('mesh') as Y.Map<number> | undefined
     if (settings.warp !== undefined) prestress?.set('warp', settings.warp)
     if (settings.fill !== undefined) prestress?.set('fill', settings.fill)
+    if (settings.warpAngle !== undefined) prestress?.set('warpAngle', settings.warpAngle)
     if (settings.edgeLength !== undefined) mesh?.set('edgeLength', settings.edgeLength)
   }, origin)
 }

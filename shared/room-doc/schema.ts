@@ -2,7 +2,7 @@
  * The room's shared document (yjs): how a frame is laid out so that concurrent edits merge sensibly.
  *
  * root map 'frame':
- *   prestress: Y.Map { warp, fill }        kN/m
+ *   prestress: Y.Map { warp, fill, warpAngle }  kN/m, kN/m, degrees (warp direction in plan from +x)
  *   mesh:      Y.Map { edgeLength }        m
  *   loops:     Y.Array<Y.Map { id, role, points: Y.Array<Y.Map { id, x, y, z, edge, tension }> }>
  *
@@ -70,6 +70,7 @@ export function writeFrame(doc: Y.Doc, frame: Readonly<Frame>, origin?: unknown)
     const prestress = new Y.Map<number>()
     prestress.set('warp', frame.prestress.warp)
     prestress.set('fill', frame.prestress.fill)
+    prestress.set('warpAngle', frame.prestress.warpAngle)
     root.set('prestress', prestress)
     const mesh = new Y.Map<number>()
     mesh.set('edgeLength', frame.mesh.edgeLength)
@@ -101,7 +102,8 @@ export function readRawFrame(doc: Y.Doc): unknown {
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: { warp: prestress?.get('warp'), fill: prestress?.get('fill') },
+    // rooms made before the warp direction existed have none: the parser's default (0) applies
+    prestress: { warp: prestress?.get('warp'), fill: prestress?.get('fill'), warpAngle: prestress?.get('warpAngle') },
     mesh: { edgeLength: mesh?.get('edgeLength') },
     loops: loops.toArray().map((loop) => {
       const pts = loop.get('points')

@@ -20,7 +20,7 @@ function loop(role: FrameLoop['role'], prefix: string, xyz: [number, number, num
 }
 
 function frame(loops: FrameLoop[], prestress: number, edgeLength: number): Frame {
-  return { format: 'veilroom-frame', version: 1, units: 'm', prestress: { warp: prestress, fill: prestress }, mesh: { edgeLength }, loops }
+  return { format: 'veilroom-frame', version: 1, units: 'm', prestress: { warp: prestress, fill: prestress, warpAngle: 0 }, mesh: { edgeLength }, loops }
 }
 
 const round = (v: number): number => Math.round(v * 1000) / 1000

@@ -49,7 +49,7 @@ const framePoint = z.object({ id: z.string(), x: num, y: num, z: num })
 const frameEdge = z.object({ kind: z.enum(['rigid', 'cable']), tension: num.optional() })
 export const frame: z.ZodType<Frame> = z.object({
   format: z.literal('veilroom-frame'), version: z.literal(1), units: z.literal('m'),
-  prestress: z.object({ warp: num, fill: num }), mesh: z.object({ edgeLength: num }),
+  prestress: z.object({ warp: num, fill: num, warpAngle: num.default(0) }), mesh: z.object({ edgeLength: num }),
   loops: z.array(z.object({ role: z.enum(['outer', 'hole']), points: z.array(framePoint), edges: z.array(frameEdge) })),
 })
 

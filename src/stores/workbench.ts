@@ -50,7 +50,7 @@ export interface SurfaceData {
 
 const emptyFrame = (): FrameView => ({
   loops: [],
-  prestress: { warp: Number.NaN, fill: Number.NaN },
+  prestress: { warp: Number.NaN, fill: Number.NaN, warpAngle: Number.NaN },
   edgeLength: Number.NaN,
 })
 
@@ -253,8 +253,8 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     if (ok && selection.value?.loopId === loopId) select(null)
     return ok
   }
-  /** Sets prestress (kN/m) and/or element size (m). */
-  const setSettings = (s: { warp?: number; fill?: number; edgeLength?: number }) =>
+  /** Sets prestress (kN/m), warp direction (degrees from +x) and/or element size (m). */
+  const setSettings = (s: { warp?: number; fill?: number; warpAngle?: number; edgeLength?: number }) =>
     edit((c) => edits.setSettings(c.doc, s, c.origin))
   /**
    * Replaces the whole frame (a restored snapshot, an imported file) in one transaction with our

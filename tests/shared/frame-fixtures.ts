@@ -22,7 +22,7 @@ export function frameFile(outer: Pt[], holes: Pt[][] = [], edgeLength = 0.5, ext
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: { warp: 3, fill: 3 },
+    prestress: { warp: 3, fill: 3, warpAngle: 0 },
     mesh: { edgeLength },
     loops: [{ role: 'outer', points: outer }, ...holes.map((points) => ({ role: 'hole', points }))],
     ...extra,

@@ -57,7 +57,7 @@ describe('CSV frames', () => {
 describe('round trips', () => {
   const file = frameFile(squareLoop(12, 3, -2, (i) => i), [circleLoop(9, 1.5, 9, 4, 5, true)], 0.3)
   it('JSON export re-imports unchanged', () => {
-    const f = parseFrameJson({ ...file, loops: [{ role: 'outer', points: squareLoop(12, 3, -2, (i) => i), edges: [{ kind: 'cable', tension: 12.5 }, { kind: 'rigid', tension: 4 }, { kind: 'rigid' }, { kind: 'rigid' }] }, (file.loops as unknown[])[1]] })
+    const f = parseFrameJson({ ...file, prestress: { warp: 4, fill: 2.5, warpAngle: -35 }, loops: [{ role: 'outer', points: squareLoop(12, 3, -2, (i) => i), edges: [{ kind: 'cable', tension: 12.5 }, { kind: 'rigid', tension: 4 }, { kind: 'rigid' }, { kind: 'rigid' }] }, (file.loops as unknown[])[1]] })
     const again = parseFrameJson(frameToJson(f))
     expect(again).toEqual(f)
     expect(frameToJson(again)).toBe(frameToJson(f))

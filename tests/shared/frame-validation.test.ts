@@ -18,10 +18,18 @@ function refusal(input: unknown): FrameError {
 describe('frame validation names the field and the reason', () => {
   it('accepts a plain square and fills defaults', () => {
     const f = parseFrameJson({ loops: [{ role: 'outer', points: squareLoop(4) }] })
-    expect(f.prestress).toEqual({ warp: 3, fill: 3 })
+    expect(f.prestress).toEqual({ warp: 3, fill: 3, warpAngle: 0 })
     expect(f.mesh.edgeLength).toBeCloseTo(Math.hypot(4, 4) / 40, 12)
     expect(f.loops[0]!.edges.every((e) => e.kind === 'rigid')).toBe(true)
     expect(f.loops[0]!.points.map((p) => p.id)).toEqual(['p1', 'p2', 'p3', 'p4'])
+  })
+
+  it('warp direction: kept as given, 0 when left out, refused when not a finite angle', () => {
+    const square = { role: 'outer', points: squareLoop(4) }
+    expect(parseFrameJson({ prestress: { warp: 4, fill: 2, warpAngle: 30 }, loops: [square] }).prestress).toEqual({ warp: 4, fill: 2, warpAngle: 30 })
+    expect(parseFrameJson({ prestress: { warp: 4, fill: 2 }, loops: [square] }).prestress.warpAngle).toBe(0)
+    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: 'east' }, loops: [square] }).field).toBe('prestress.warpAngle')
+    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: Infinity }, loops: [square] })).toMatchObject({ code: 'not-finite', field: 'prestress.warpAngle' })
   })
 
   it('fewer than 3 points', () => {

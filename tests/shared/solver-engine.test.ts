@@ -15,7 +15,7 @@ function square(z: number[], edgeLength = 0.5): Frame {
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: { warp: 3, fill: 3 },
+    prestress: { warp: 3, fill: 3, warpAngle: 0 },
     mesh: { edgeLength },
     loops: [
       {
@@ -48,7 +48,7 @@ function rings(radius: number, gap: number): Frame {
     format: 'veilroom-frame',
     version: 1,
     units: 'm',
-    prestress: { warp: 3, fill: 3 },
+    prestress: { warp: 3, fill: 3, warpAngle: 0 },
     mesh: { edgeLength: 0.08 },
     loops: [loop(0), loop(1)],
   }
@@ -116,7 +116,7 @@ describe('form-finding engine', () => {
       format: 'veilroom-frame',
       version: 1,
       units: 'm',
-      prestress: { warp: 3, fill: 3 },
+      prestress: { warp: 3, fill: 3, warpAngle: 0 },
       mesh: { edgeLength: 0.15 },
       loops: [ring(0, 3, 0, 48), ring(1, 1.5, height, 24)],
     }
@@ -134,7 +134,7 @@ describe('form-finding engine', () => {
     // source: T = w·R (CHECKS.md): T = 50 kN, σ = 2 kN/m, chord 10 m → sag 0.505102572 m; at
     // h = 0.5 m the measured error is ~3e-5 m (O(h²)), tolerance 1e-4 m
     const frame = square([0, 0, 0, 0])
-    frame.prestress = { warp: 2, fill: 2 }
+    frame.prestress = { warp: 2, fill: 2, warpAngle: 0 }
     frame.loops[0]!.edges[0] = { kind: 'cable', tension: 50 }
     const result = solveFrame(frame)
     expect(result.solver.converged).toBe(true)
@@ -155,7 +155,7 @@ describe('form-finding engine', () => {
 
   it('refuses an invalid frame with the field named', () => {
     const frame = square([0, 3, 0, 3])
-    frame.prestress = { warp: -1, fill: 3 }
+    frame.prestress = { warp: -1, fill: 3, warpAngle: 0 }
     expect(() => createSurfaceSolver().solve(frame)).toThrow(FrameError)
     try {
       createSurfaceSolver().solve(frame)

@@ -28,13 +28,14 @@ export interface ViewLoop {
 
 export interface FrameView {
   loops: ViewLoop[]
-  /** Membrane prestress, kN/m. */
-  prestress: { warp: number; fill: number }
+  /** Membrane prestress, kN/m; warpAngle: warp direction in plan, degrees from +x. */
+  prestress: { warp: number; fill: number; warpAngle: number }
   /** Target element size, m. */
   edgeLength: number
 }
 
 const num = (v: unknown): number => (typeof v === 'number' ? v : Number.NaN)
+const angle = (v: unknown): number => (v === undefined ? 0 : num(v))
 const str = (v: unknown): string => (typeof v === 'string' ? v : '')
 
 /** Reads the frame of a room document; an empty document gives no loops. */
@@ -47,6 +48,8 @@ export function readFrameView(doc: Y.Doc): FrameView {
     prestress: {
       warp: prestress instanceof Y.Map ? num(prestress.get('warp')) : Number.NaN,
       fill: prestress instanceof Y.Map ? num(prestress.get('fill')) : Number.NaN,
+      // rooms made before the warp direction existed have none, which the solver reads as 0
+      warpAngle: prestress instanceof Y.Map ? angle(prestress.get('warpAngle')) : Number.NaN,
     },
     edgeLength: mesh instanceof Y.Map ? num(mesh.get('edgeLength')) : Number.NaN,
     loops: loops instanceof Y.Array ? (loops.toArray() as YLoop[]).map(readLoop) : [],
