@@ -11,10 +11,8 @@ import { solveFrame } from '../shared/engine'
 import { figuresToCsv, surfaceResultToJson, toObj, toStl } from '../shared/export'
 import { FrameError, parseFrameCsv, parseFrameJson } from '../shared/frame'
 import { MeshError } from '../shared/mesh'
+import { CAUTION, reasonWords } from '../shared/protocol'
 import type { Frame } from '../shared/types'
-
-const CAUTION =
-  'Caution: form-finding results are preliminary. Loads, stresses, deflections, drainage under load, fabric patterning, anchors and connections must be checked by a qualified engineer under the codes that apply where the structure is built.'
 
 interface Args {
   input: string
@@ -85,7 +83,7 @@ function main(): void {
     throw err
   }
   const { solver: s, figures: f } = result
-  const state = s.converged ? 'settled' : `unsettled (${s.reason ?? 'unknown reason'})`
+  const state = s.converged ? 'settled' : `unsettled: ${reasonWords(s.reason)}`
   const lines = [
     `Surface ${state}: ${s.method}, ${s.iterations} iterations, residual ${s.residual.toExponential(2)}, ${s.ms.toFixed(0)} ms`,
     `Mesh: ${result.vertices.length} vertices, ${result.triangles.length} triangles, smallest angle ${f.minAngle.toFixed(1)}°`,
@@ -93,7 +91,7 @@ function main(): void {
     `Height ${f.heightRange[0].toFixed(3)}…${f.heightRange[1].toFixed(3)} m, slope ${f.slopeRange[0].toFixed(1)}…${f.slopeRange[1].toFixed(1)}°, flat (< ${f.flatThreshold}°) ${(100 * f.flatShare).toFixed(1)} %`,
     `Ponding pockets: ${f.pondingPockets.length}${f.pondingPockets.map((p) => ` (${p.x.toFixed(2)}, ${p.y.toFixed(2)}) ${p.area.toFixed(2)} m²`).join(',')}`,
     ...f.cables.map((c) => `Cable loop ${c.loop} edge ${c.edge}: length ${c.length.toFixed(3)} m, force ${c.force} kN, sag ${c.sag.toFixed(3)} m`),
-    CAUTION,
+    `Caution: ${CAUTION}`,
   ]
   process.stdout.write(lines.join('\n') + '\n')
   if (args.out) {

@@ -52,9 +52,6 @@ export async function roomRoleOf(ds: DataSource, roomId: string, userId: string)
   return m ? m.role : null
 }
 
-/** Roles that may change the frame (protocol: owner/editor write, reviewer/viewer read only). */
-export const canEditFrame = (role: RoomRole): boolean => role === 'owner' || role === 'editor'
-
 /**
  * Origins a browser may open our sockets from: the public URL, and in development also the Vite
  * dev server (default port 5173).

@@ -3,6 +3,8 @@
  * thread, and the stateful surface solver with figures (shared/engine, shared/figures) in the workers.
  */
 import { FrameError, parseFrameJson } from '../../shared/frame/index.js'
+export { estimatedVertices, frameMeshedArea } from '../../shared/frame/index.js'
+export { frameStructureKey } from '../../shared/solver/index.js'
 import type { Frame } from '../../shared/types.js'
 
 export type FrameCheck = { ok: true; frame: Frame } | { ok: false; code: string; message: string; field?: string }

@@ -11,9 +11,9 @@ import type { Config } from '../config.js'
 import { allowedOrigins } from './access.js'
 import { RoomDocs, type RoomDocsOptions } from './room-docs.js'
 import { readRawFrame } from '../../shared/room-doc/schema.js'
-import type { Frame } from '../../shared/types.js'
 import { validateRoomFrame } from './engine-link.js'
-import { createSolveLoop, type SettledSurface, type SolveLoop } from './solve-loop.js'
+import { createSolveLoop, type SolveLoop } from './solve-loop.js'
+import type { LiveRoomPort } from '../live-room-port/index.js'
 import { SolvePool } from './solve-pool.js'
 import { attachSurfaceStream, type SurfaceStream } from './surface-stream.js'
 import { attachSyncEndpoint } from './sync-endpoint.js'
@@ -28,19 +28,10 @@ export interface RealtimeDeps {
   tuning?: RoomDocsOptions & { workers?: number; staleMs?: number; coarseAbove?: number }
 }
 
-export interface Realtime {
+/** The live room; as a LiveRoomPort it is what the HTTP modules receive. getLatestSurface solves on demand (up to 60 s). */
+export interface Realtime extends LiveRoomPort {
   rooms: RoomDocs
   loop: SolveLoop
-  /** Gives a room its starting frame if its document is empty (room creation, demo seed). */
-  ensureRoomFrame: (roomId: string, starterKey: StarterKey) => Promise<boolean>
-  /** The room's current frame (null when the document holds an invalid one) and version; loads the room if needed. */
-  getRoomFrame: (roomId: string) => Promise<{ frame: Frame | null; version: number }>
-  /** The last settled fine surface; solves on demand (up to 60 s) when the room was not loaded. */
-  getLatestSurface: (roomId: string) => Promise<SettledSurface | null>
-  /** socket.io broadcast to everyone who joined the room. */
-  emitToRoom: (roomId: string, event: string, payload: unknown) => void
-  /** Closes sync sockets and disconnects socket.io sockets of a room and/or a user. */
-  closeRoomSockets: (roomId?: string, userId?: string) => void
   /** Closes sockets, stops the workers and stores every loaded room. */
   close: () => Promise<void>
 }

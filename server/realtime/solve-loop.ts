@@ -7,22 +7,19 @@
  */
 import * as Y from 'yjs'
 import { readRawFrame } from '../../shared/room-doc/schema.js'
+import { solverReasonSchema, type ServerPayload, type SolveStateEvent, type SurfaceEvent, type VersionedSurface } from '../../shared/protocol/index.js'
+import { edgeLengthFor } from '../../shared/mesh/lattice.js'
 import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
-import { validateRoomFrame } from './engine-link.js'
+import { estimatedVertices, frameMeshedArea, frameStructureKey, validateRoomFrame } from './engine-link.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
-import type { SurfacePayload } from './solve-messages.js'
 import type { SolveHandle, SolvePool } from './solve-pool.js'
+import type { RoomEmit } from '../live-room-port/index.js'
 
 /** Vertex count a coarse preview aims at. */
 const COARSE_VERTICES = 2000
-/**
- * Plan area per vertex of an equilateral lattice of side h is (√3/2) h² ≈ 0.866 h² (each vertex
- * carries two triangles of √3/4 h²); the mesher's interior lattice is of this kind.
- */
-const LATTICE = Math.sqrt(3) / 2
 
-type Emit = (roomId: string, event: string, payload: unknown) => void
+type LoopEvent = 'surface' | 'solve:state' | 'solve:progress'
 
 interface Watch {
   room: LiveRoom
@@ -31,64 +28,39 @@ interface Watch {
   scheduled: boolean
   /** Structure of the last fine solve: the worker can warm-start only a frame of the same one. */
   warmKey: string | null
-  surface?: unknown
-  state?: unknown
+  surface?: SurfaceEvent
+  state?: SolveStateEvent
   /** The last fine surface that converged. */
-  settled?: SettledSurface
+  settled?: VersionedSurface
   /** Called after each surface or state sent (getLatestSurface waits on them). */
   waiters: Set<() => void>
   onUpdate: () => void
 }
 
-/** The last settled (fine, converged) surface of a room. */
-export interface SettledSurface extends SurfacePayload {
-  version: number
-}
-
 export interface SolveLoop {
   /** What a client joining the room is sent first: the last surface and solve state. */
-  latest: (roomId: string) => { event: string; payload: unknown }[]
+  latest: (roomId: string) => LatestEvent[]
   /**
    * The last settled surface of a loaded room, after waiting (up to `ms`) for the outcome of the
    * solve of its current version; null when nothing ever settled.
    */
-  settledSurface: (roomId: string, ms: number) => Promise<SettledSurface | null>
+  settledSurface: (roomId: string, ms: number) => Promise<VersionedSurface | null>
   close: () => void
 }
 
-/** Plan area of the outer loop minus its holes, m² (shoelace). */
-export function planArea(frame: Readonly<Frame>): number {
-  let total = 0
-  for (const loop of frame.loops) {
-    let twice = 0
-    const n = loop.points.length
-    for (let i = 0; i < n; i++) {
-      const a = loop.points[i]!
-      const b = loop.points[(i + 1) % n]!
-      twice += a.x * b.y - b.x * a.y
-    }
-    total += (loop.role === 'outer' ? 1 : -1) * Math.abs(twice / 2)
-  }
-  return Math.max(total, 0)
-}
+/** An event as the loop keeps it for a client that joins late. */
+export type LatestEvent = { event: 'surface'; payload: SurfaceEvent } | { event: 'solve:state'; payload: SolveStateEvent }
 
-/** What decides the mesh connectivity: element size, loops, their point counts and edge kinds. */
-export const structureOf = (frame: Readonly<Frame>): string =>
-  JSON.stringify([frame.mesh.edgeLength, frame.loops.map((l) => [l.role, l.points.length, l.edges.map((e) => e.kind)])])
-
-/** Estimated vertex count of the frame's mesh. */
-export const estimatedVertices = (frame: Readonly<Frame>): number => planArea(frame) / (LATTICE * frame.mesh.edgeLength ** 2)
-
-export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: Emit; staleMs?: number; coarseAbove?: number }): SolveLoop {
+export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: RoomEmit; staleMs?: number; coarseAbove?: number }): SolveLoop {
   const { rooms, pool, emit } = opts
   const staleMs = opts.staleMs ?? 250
   const coarseAbove = opts.coarseAbove ?? 3 * COARSE_VERTICES
   const watches = new Map<string, Watch>()
 
-  const send = (w: Watch, event: 'surface' | 'solve:state' | 'solve:progress', payload: Record<string, unknown>) => {
-    const full = { roomId: w.room.roomId, ...payload }
-    if (event === 'surface') w.surface = full
-    if (event === 'solve:state') w.state = full
+  const send = <E extends LoopEvent>(w: Watch, event: E, payload: Omit<ServerPayload<E>, 'roomId'>) => {
+    const full = { roomId: w.room.roomId, ...payload } as ServerPayload<E>
+    if (event === 'surface') w.surface = full as SurfaceEvent
+    if (event === 'solve:state') w.state = full as SolveStateEvent
     emit(w.room.roomId, event, full)
     if (event !== 'solve:progress') for (const wake of w.waiters) wake()
   }
@@ -141,10 +113,12 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     const { kind: _k, worker: _w, ...surface } = outcome
     send(w, 'surface', { version, stateVector, coarse, ...surface })
     if (!coarse) {
-      w.warmKey = structureOf(frame)
+      w.warmKey = frameStructureKey(frame)
       if (surface.solver.converged) w.settled = { version, ...surface }
       const { converged, reason } = surface.solver
-      send(w, 'solve:state', converged ? { version, state: 'settled' } : { version, state: 'unsettled', reason: reason ?? 'not-converged' })
+      // the worker's report is ours, but its reason is a plain string: name unknown codes 'unknown'
+      const why = solverReasonSchema.parse(reason ?? 'not-converged')
+      send(w, 'solve:state', converged ? { version, state: 'settled' } : { version, state: 'unsettled', reason: why })
     }
     return true
   }
@@ -152,8 +126,8 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
   const run = async (w: Watch, frame: Frame, version: number, stateVector: Uint8Array) => {
     send(w, 'solve:state', { version, state: 'settling' })
     try {
-      if (w.warmKey !== structureOf(frame) && estimatedVertices(frame) > coarseAbove) {
-        const edgeLength = Math.sqrt(planArea(frame) / (LATTICE * COARSE_VERTICES))
+      if (w.warmKey !== frameStructureKey(frame) && estimatedVertices(frame) > coarseAbove) {
+        const edgeLength = edgeLengthFor(frameMeshedArea(frame), COARSE_VERTICES)
         const previewed = await solveOnce(w, { ...frame, mesh: { edgeLength } }, version, stateVector, true)
         if (!previewed && w.running) return
       }
@@ -187,7 +161,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
   return {
     latest: (roomId) => {
       const w = watches.get(roomId)
-      const out: { event: string; payload: unknown }[] = []
+      const out: LatestEvent[] = []
       if (w?.surface) out.push({ event: 'surface', payload: w.surface })
       if (w?.state) out.push({ event: 'solve:state', payload: w.state })
       return out
@@ -197,7 +171,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       if (!w) return Promise.resolve(null)
       const target = w.room.version
       const decided = () => {
-        const s = w.state as { version?: number; state?: string } | undefined
+        const s = w.state
         return (w.settled?.version ?? -1) >= target || ((s?.version ?? -1) >= target && s?.state !== 'settling')
       }
       if (decided()) return Promise.resolve(w.settled ?? null)

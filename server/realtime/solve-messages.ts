@@ -1,5 +1,6 @@
 /** Messages between the solve pool (main thread) and its workers. Typed arrays travel transferred. */
-import type { Figures, Frame, SolverReport } from '../../shared/types.js'
+import type { Surface } from '../../shared/protocol/index.js'
+import type { Frame } from '../../shared/types.js'
 
 export interface SolveJobMessage {
   type: 'solve'
@@ -19,16 +20,7 @@ export interface ForgetMessage {
 
 export type ToWorker = SolveJobMessage | ForgetMessage
 
-export interface SurfacePayload {
-  /** #V×3, metres. */
-  vertices: Float32Array
-  /** #T×3 vertex indices. */
-  triangles: Uint32Array
-  figures: Figures
-  solver: SolverReport
-}
-
 export type FromWorker =
   | { type: 'progress'; jobId: number; iteration: number; residual: number }
-  | ({ type: 'result'; jobId: number } & SurfacePayload)
+  | ({ type: 'result'; jobId: number } & Surface)
   | { type: 'failed'; jobId: number; message: string }

@@ -6,12 +6,13 @@
 import { Worker } from 'node:worker_threads'
 import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
-import type { FromWorker, SurfacePayload, ToWorker } from './solve-messages.js'
+import type { Surface } from '../../shared/protocol/index.js'
+import type { FromWorker, ToWorker } from './solve-messages.js'
 
 export type SolveOutcome =
-  | ({ kind: 'result'; worker: number } & SurfacePayload)
+  | ({ kind: 'result'; worker: number } & Surface)
   /** `solver` is there when the worker answered: its reason says whether the engine saw the flag. */
-  | { kind: 'cancelled'; solver?: SurfacePayload['solver'] }
+  | { kind: 'cancelled'; solver?: Surface['solver'] }
   | { kind: 'failed'; message: string }
 
 export interface SolveHandle {

@@ -5,24 +5,35 @@
  */
 import type { Server as HttpServer } from 'node:http'
 import { Server, type Socket } from 'socket.io'
+import {
+  can,
+  roomRefSchema,
+  type ClientToServerEvents,
+  type JoinReply,
+  type ServerToClientEvents,
+  type SocketData,
+} from '../../shared/protocol/index.js'
 import { logger } from '../lib/logger.js'
-import { parseRoomId, roomRoleOf, sessionUser, type AccessDeps, type SessionUser } from './access.js'
+import type { RoomEmit } from '../live-room-port/index.js'
+import { roomRoleOf, sessionUser, type AccessDeps } from './access.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
+import type { LatestEvent } from './solve-loop.js'
 
-export type JoinAck = { ok: true; role: string } | { ok: false; error: { code: string; message: string } }
+type StreamServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>
+type StreamSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>
 
 export interface SurfaceStreamOptions {
   rooms: RoomDocs
   access: AccessDeps
   origins: () => Set<string>
   /** The last surface (and solve state) of a room, sent to a client that joins. */
-  latest: (roomId: string) => { event: string; payload: unknown }[]
+  latest: (roomId: string) => LatestEvent[]
 }
 
 export interface SurfaceStream {
-  io: Server
+  io: StreamServer
   /** Sends an event to everyone who joined the room. */
-  emit: (roomId: string, event: string, payload: unknown) => void
+  emit: RoomEmit
   /** Disconnects the sockets of a room and/or a user (membership removed, signed out). */
   closeWhere: (roomId?: string, userId?: string) => void
   close: () => Promise<void>
@@ -31,7 +42,7 @@ export interface SurfaceStream {
 export const channel = (roomId: string): string => `room:${roomId}`
 
 export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamOptions): SurfaceStream {
-  const io = new Server(httpServer, {
+  const io: StreamServer = new Server(httpServer, {
     // The /sync upgrade belongs to the CRDT endpoint; by default socket.io would destroy it after 1 s.
     destroyUpgrade: false,
     maxHttpBufferSize: 64 * 1024,
@@ -54,17 +65,21 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
     )
   })
 
-  io.on('connection', (socket: Socket) => {
+  io.on('connection', (socket: StreamSocket) => {
     const held = new Map<string, LiveRoom>()
     socket.on('error', (err) => logger.debug('realtime: socket.io error', { err: String(err) }))
 
-    socket.on('room:join', async (body: unknown, ack?: (a: JoinAck) => void) => {
-      const reply = typeof ack === 'function' ? ack : () => undefined
+    socket.on('room:join', async (body: unknown, ack?: unknown) => {
+      // The event map types the arguments, but a client can send anything: parse them.
+      const reply = typeof ack === 'function' ? (ack as (r: JoinReply) => void) : () => undefined
       try {
-        const roomId = parseRoomId((body as { roomId?: unknown } | null)?.roomId)
-        const user = socket.data.user as SessionUser
+        const ref = roomRefSchema.safeParse(body)
+        const roomId = ref.success ? ref.data.roomId : undefined
+        const user = socket.data.user
         const role = roomId ? await roomRoleOf(opts.access.dataSource, roomId, user.id) : null
-        if (!roomId || !role) return reply({ ok: false, error: { code: 'room_not_found', message: 'No such room, or you are not a member.' } })
+        if (!roomId || !role || !can(role, 'read')) {
+          return reply({ ok: false, error: { code: 'room_not_found', message: 'No such room, or you are not a member.' } })
+        }
         if (!held.has(roomId)) {
           const room = await opts.rooms.acquire(roomId)
           if (socket.disconnected || held.has(roomId)) void opts.rooms.release(room)
@@ -72,7 +87,10 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
         }
         await socket.join(channel(roomId))
         reply({ ok: true, role })
-        for (const { event, payload } of opts.latest(roomId)) socket.emit(event, payload)
+        for (const latest of opts.latest(roomId)) {
+          if (latest.event === 'surface') socket.emit('surface', latest.payload)
+          else socket.emit('solve:state', latest.payload)
+        }
       } catch (err) {
         logger.error('realtime: room:join failed', { err: String(err) })
         reply({ ok: false, error: { code: 'internal', message: 'The room could not be opened.' } })
@@ -80,7 +98,8 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
     })
 
     socket.on('room:leave', async (body: unknown) => {
-      const roomId = parseRoomId((body as { roomId?: unknown } | null)?.roomId)
+      const ref = roomRefSchema.safeParse(body)
+      const roomId = ref.success ? ref.data.roomId : undefined
       const room = roomId ? held.get(roomId) : undefined
       if (!roomId || !room) return
       held.delete(roomId)
@@ -97,12 +116,12 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
   return {
     io,
     emit: (roomId, event, payload) => {
-      io.to(channel(roomId)).emit(event, payload)
+      io.to(channel(roomId)).emit(event, ...([payload] as Parameters<ServerToClientEvents[typeof event]>))
     },
     closeWhere: (roomId, userId) => {
       for (const socket of io.sockets.sockets.values()) {
         const inRoom = roomId === undefined || socket.rooms.has(channel(roomId))
-        const isUser = userId === undefined || (socket.data.user as SessionUser | undefined)?.id === userId
+        const isUser = userId === undefined || (socket.data.user as SocketData['user'] | undefined)?.id === userId
         if (inRoom && isUser) socket.disconnect(true)
       }
     },

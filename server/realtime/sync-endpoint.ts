@@ -13,7 +13,8 @@ import * as syncProtocol from 'y-protocols/sync'
 import { WebSocketServer, type WebSocket } from 'ws'
 import * as Y from 'yjs'
 import { logger } from '../lib/logger.js'
-import { canEditFrame, parseRoomId, roomRoleOf, sessionUser, type AccessDeps } from './access.js'
+import { can } from '../../shared/protocol/index.js'
+import { parseRoomId, roomRoleOf, sessionUser, type AccessDeps } from './access.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
 
 const MESSAGE_SYNC = 0
@@ -72,7 +73,7 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
       live.set(ws, { roomId, userId: user.id })
       alive.add(ws)
       ws.on('pong', () => alive.add(ws))
-      serve(ws, room, !canEditFrame(role), user.id)
+      serve(ws, room, !can(role, 'editFrame'), user.id)
       ws.once('close', () => {
         live.delete(ws)
         void opts.rooms.release(room)

@@ -1,10 +1,13 @@
 /**
- * Surface meshes as OBJ (Wavefront, 1-based faces) and ASCII STL text, metres. Both carry a
- * comment/solid name line only; figures go to figuresToCsv.
+ * Surface meshes as OBJ (Wavefront, 1-based faces) and ASCII STL text, metres. Both carry the
+ * caution (OBJ as comment lines, STL in the solid's name: ASCII STL has no comments); figures go
+ * to figuresToCsv.
  */
+import { CAUTION, CAUTION_TITLE, cautionLines } from '../protocol/caution'
 import type { SurfaceResult } from '../types'
 
-const CAUTION = 'Form-finding result, preliminary: to be checked by a qualified engineer under local codes.'
+/** The STL solid name: the caution rides in it. */
+export const STL_SOLID_NAME = `veilroom_surface ${CAUTION_TITLE}: ${CAUTION}`
 
 function fmt(x: number): string {
   return Number.isInteger(x) ? String(x) : x.toPrecision(10).replace(/\.?0+$/, '')
@@ -12,14 +15,14 @@ function fmt(x: number): string {
 
 /** OBJ text: `v x y z` lines then `f i j k` (1-based), counter-clockwise as in the result. */
 export function toObj(result: Readonly<Pick<SurfaceResult, 'vertices' | 'triangles'>>): string {
-  const lines = [`# Veilroom surface, metres. ${CAUTION}`]
+  const lines = [`# Veilroom surface, metres.\n${cautionLines('# ').trimEnd()}`]
   for (const [x, y, z] of result.vertices) lines.push(`v ${fmt(x)} ${fmt(y)} ${fmt(z)}`)
   for (const [a, b, c] of result.triangles) lines.push(`f ${a + 1} ${b + 1} ${c + 1}`)
   return lines.join('\n') + '\n'
 }
 
 /** ASCII STL text with one facet per triangle and its unit normal (right-hand rule). */
-export function toStl(result: Readonly<Pick<SurfaceResult, 'vertices' | 'triangles'>>, name = 'veilroom_surface'): string {
+export function toStl(result: Readonly<Pick<SurfaceResult, 'vertices' | 'triangles'>>, name = STL_SOLID_NAME): string {
   const lines = [`solid ${name}`]
   const V = result.vertices
   for (const [a, b, c] of result.triangles) {

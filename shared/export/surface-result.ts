@@ -1,4 +1,5 @@
 /** The JSON form of a solved surface (PRODUCT.md "Surface result"). */
+import { CAUTION } from '../protocol/caution'
 import type { Figures, MembraneMesh, SolverReport, SurfaceResult } from '../types'
 
 /** Typed-array mesh + figures + solver report → the plain SurfaceResult shape. */
@@ -11,9 +12,12 @@ export function toSurfaceResult(mesh: Readonly<MembraneMesh>, figures: Figures, 
   return { vertices, triangles, figures, solver }
 }
 
-/** JSON text of a SurfaceResult; refuses non-finite numbers (JSON would turn them into null). */
+/**
+ * JSON text of a SurfaceResult with the `caution` field beside it (someone may build from the file);
+ * refuses non-finite numbers (JSON would turn them into null).
+ */
 export function surfaceResultToJson(result: Readonly<SurfaceResult>): string {
-  return JSON.stringify(result, (key, value: unknown) => {
+  return JSON.stringify({ ...result, caution: CAUTION }, (key, value: unknown) => {
     if (typeof value === 'number' && !Number.isFinite(value)) throw new Error(`surface result: ${key || 'value'} is not finite (${value})`)
     return value
   })

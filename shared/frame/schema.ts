@@ -7,7 +7,7 @@ import { z } from 'zod'
 /** Defaults when a file leaves them out (CSV files never carry them). */
 export const DEFAULT_PRESTRESS = 3 // kN/m, warp and fill
 export const MAX_FRAME_POINTS = 2000
-export const MAX_ESTIMATED_VERTICES = 200_000
+export const MAX_ESTIMATED_VERTICES = 100_000
 
 const finite = z.number()
 

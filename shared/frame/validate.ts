@@ -10,10 +10,8 @@ import type { Frame } from '../types'
 import { loopSignedArea, pointSegmentDistance, segmentsTouch } from '../mesh/plan-geometry'
 import { FrameError } from './frame-error'
 import { frameSpan, loopPlan, loopsApartInHeight, loopsTouch, loopStrictlyInside } from './loop-relations'
+import { estimatedVertexCount } from '../mesh/lattice'
 import { MAX_ESTIMATED_VERTICES, MAX_FRAME_POINTS } from './schema'
-
-/** Area of a unit-spaced equilateral triangle lattice cell per vertex: √3/4 ≈ 0.433 (per h²). */
-const LATTICE_AREA_PER_VERTEX = Math.sqrt(3) / 4
 
 /** Throws the first problem found; returns the frame unchanged when it is valid. */
 export function validateFrame(frame: Readonly<Frame>): Frame {
@@ -115,13 +113,15 @@ function checkLoopShape(xy: Float64Array, l: number, tol: number): void {
   }
 }
 
-/** Refuse meshes too fine for the engine: plan area / (0.433 h²) vertices at most. */
-function checkMeshSize(frame: Readonly<Frame>, plans: readonly Float64Array[]): void {
+/**
+ * The area the mesher fills, m²: the outer loop's plan area minus the holes', or for two rings one
+ * above the other the lofted side (mean perimeter × gap between their centres).
+ */
+function meshedArea(frame: Readonly<Frame>, plans: readonly Float64Array[]): number {
   const h = frame.mesh.edgeLength
   let area = Math.abs(loopSignedArea(plans[0]!))
   const spatial = plans.length === 2 && !loopStrictlyInside(plans[1]!, plans[0]!, 0)
   if (spatial) {
-    // Rings one above the other: estimate the lofted side area as mean perimeter × mean gap.
     const perim = (loop: Readonly<Frame['loops'][number]>): number =>
       loop.points.reduce((s, p, i) => {
         const q = loop.points[(i + 1) % loop.points.length]!
@@ -130,11 +130,23 @@ function checkMeshSize(frame: Readonly<Frame>, plans: readonly Float64Array[]): 
     const [a, b] = frame.loops as [Frame['loops'][number], Frame['loops'][number]]
     const mean = (loop: typeof a, k: 'x' | 'y' | 'z'): number => loop.points.reduce((s, p) => s + p[k], 0) / loop.points.length
     const gap = Math.hypot(mean(a, 'x') - mean(b, 'x'), mean(a, 'y') - mean(b, 'y'), mean(a, 'z') - mean(b, 'z'))
-    area = ((perim(a) + perim(b)) / 2) * Math.max(gap, h)
-  } else {
-    for (let l = 1; l < plans.length; l++) area -= Math.abs(loopSignedArea(plans[l]!))
+    return ((perim(a) + perim(b)) / 2) * Math.max(gap, h)
   }
-  const estimate = area / (LATTICE_AREA_PER_VERTEX * h * h)
+  for (let l = 1; l < plans.length; l++) area -= Math.abs(loopSignedArea(plans[l]!))
+  return Math.max(area, 0)
+}
+
+/** Estimated vertex count of a valid frame's mesh (shared/mesh/lattice.ts estimatedVertexCount). */
+export function estimatedVertices(frame: Readonly<Frame>): number {
+  return estimatedVertexCount(meshedArea(frame, frame.loops.map(loopPlan)), frame.mesh.edgeLength)
+}
+
+/** The area (m²) the mesher fills for a valid frame. */
+export const frameMeshedArea = (frame: Readonly<Frame>): number => meshedArea(frame, frame.loops.map(loopPlan))
+
+/** Refuse meshes too fine for the engine: at most MAX_ESTIMATED_VERTICES estimated vertices. */
+function checkMeshSize(frame: Readonly<Frame>, plans: readonly Float64Array[]): void {
+  const estimate = estimatedVertexCount(meshedArea(frame, plans), frame.mesh.edgeLength)
   if (estimate > MAX_ESTIMATED_VERTICES) {
     throw new FrameError(
       'mesh-too-fine',

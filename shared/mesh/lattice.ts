@@ -5,6 +5,19 @@
 import { pointSegmentDistance } from './plan-geometry'
 
 /**
+ * Plan area per vertex of an equilateral lattice of side h, per h²: each interior vertex is shared
+ * by six triangles of (√3/4)h² and each triangle has three vertices, so a vertex carries two
+ * triangles: (√3/2)h² ≈ 0.866 h².
+ */
+export const LATTICE_AREA_PER_VERTEX = Math.sqrt(3) / 2
+
+/** Vertex count of a lattice mesh of element size h (m) over `area` m² (boundary rows add a few). */
+export const estimatedVertexCount = (area: number, h: number): number => area / (LATTICE_AREA_PER_VERTEX * h * h)
+
+/** The element size (m) at which `area` m² meshes to about `vertices` vertices. */
+export const edgeLengthFor = (area: number, vertices: number): number => Math.sqrt(area / (LATTICE_AREA_PER_VERTEX * vertices))
+
+/**
  * xyz: #B×3 boundary samples (m); segments: closed loops as index pairs into them (every loop's
  * segments, outer and holes). Returns #P×2 plan coordinates. Inside = even–odd rule over all
  * segments, so holes are excluded. Cost O(P + B) with a uniform bucket grid of cell size h.

@@ -9,7 +9,7 @@ import { WebsocketProvider } from 'y-websocket'
 import type { Awareness } from 'y-protocols/awareness'
 import { frameMap } from '../../shared/room-doc/schema'
 import type { RoomRole } from './schemas'
-import { canEditFrame } from '../lib/roles'
+import { can } from '../../shared/protocol'
 
 export interface PresenceUser {
   id: string
@@ -33,7 +33,7 @@ export interface PresenceState {
 export type SyncStatus = 'connecting' | 'connected' | 'disconnected'
 
 // Our own set: distinct on the pale page and against the surface ramps.
-const PRESENCE_COLOURS = ['#c2571a', '#3f6fb5', '#8a4fa3', '#2e8b57', '#b03a63', '#a07a12', '#1f8a99', '#6b5b3e']
+export const PRESENCE_COLOURS = ['#c2571a', '#3f6fb5', '#8a4fa3', '#2e8b57', '#b03a63', '#a07a12', '#1f8a99', '#6b5b3e']
 
 /** A stable colour for a user id, so a person keeps their colour across sessions. */
 export function presenceColour(userId: string): string {
@@ -97,7 +97,7 @@ export function openRoomDocument(roomId: string, user: PresenceUser, role: RoomR
     provider,
     origin,
     undo,
-    readOnly: !canEditFrame(role),
+    readOnly: !can(role, 'editFrame'),
     hold(held) {
       provider.awareness.setLocalStateField('held', held)
     },

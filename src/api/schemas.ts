@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { roomRoleSchema } from '../../shared/protocol'
 
 /**
  * Shapes of the server's JSON replies (the API contract of issue 2). Replies are checked at the edge
@@ -7,9 +8,8 @@ import { z } from 'zod'
  */
 const id = z.union([z.string().min(1), z.number().int()]).transform(String)
 
-export const roomRoles = ['owner', 'editor', 'reviewer', 'viewer'] as const
-export const roomRole = z.enum(roomRoles)
-export type RoomRole = z.infer<typeof roomRole>
+export { roomRoles, type RoomRole } from '../../shared/protocol'
+const roomRole = roomRoleSchema
 
 export const user = z.object({ id, email: z.string(), name: z.string() })
 export type User = z.infer<typeof user>

@@ -4,9 +4,18 @@
  * Replies are checked at the edge like api/schemas.ts does, so contract drift is one clear ApiError.
  */
 import { z } from 'zod'
+import {
+  figuresSummarySchema,
+  frameSchema,
+  pinSchema,
+  roomRoleSchema as roomRole,
+  surfaceMeshJsonSchema,
+  type SurfaceMesh,
+} from '../../shared/protocol'
 import type { Frame } from '../../shared/types'
 import { ApiError, request, type Member } from './http'
-import { roomRole } from './schemas'
+
+export type { Pin } from '../../shared/protocol'
 
 const id = z.union([z.string().min(1), z.number().int()]).transform(String)
 const person = z.object({ id, name: z.string() }).nullable().catch(null)
@@ -23,20 +32,8 @@ export const invitePreview = z.object({
 })
 export type InvitePreview = z.infer<typeof invitePreview>
 
-const reply = z.object({ id, body: z.string(), author: person, createdAt: z.string() })
-export const pin = z.object({
-  id, x: num, y: num, z: num, docVersion: num, body: z.string(), resolved: z.boolean(), author: person,
-  createdAt: z.string(), updatedAt: z.string(), replies: z.array(reply),
-})
-export type Pin = z.infer<typeof pin>
-
-const range = z.tuple([num, num])
 /** The figures a snapshot list row carries (server keeps the full set in the snapshot itself). */
-export const snapshotFigures = z.object({
-  area: num, planArea: num, perimeter: num, heightRange: range, slopeRange: range, flatShare: num,
-  cableCount: num.optional(),
-  cables: z.array(z.object({ loop: num, edge: num, length: num, force: num })).optional(),
-})
+export const snapshotFigures = figuresSummarySchema
 export type SnapshotFigures = z.infer<typeof snapshotFigures>
 
 export const snapshotSummary = z.object({
@@ -45,26 +42,8 @@ export const snapshotSummary = z.object({
 })
 export type SnapshotSummary = z.infer<typeof snapshotSummary>
 
-const framePoint = z.object({ id: z.string(), x: num, y: num, z: num })
-const frameEdge = z.object({ kind: z.enum(['rigid', 'cable']), tension: num.optional() })
-export const frame: z.ZodType<Frame> = z.object({
-  format: z.literal('veilroom-frame'), version: z.literal(1), units: z.literal('m'),
-  prestress: z.object({ warp: num, fill: num, warpAngle: num.default(0) }), mesh: z.object({ edgeLength: num }),
-  loops: z.array(z.object({ role: z.enum(['outer', 'hole']), points: z.array(framePoint), edges: z.array(frameEdge) })),
-})
-
-export const snapshotDetail = snapshotSummary.extend({ frame })
+export const snapshotDetail = snapshotSummary.extend({ frame: frameSchema })
 export type SnapshotDetail = z.infer<typeof snapshotDetail>
-
-export const surfaceResult = z.object({
-  vertices: z.array(z.tuple([num, num, num])),
-  triangles: z.array(z.tuple([num, num, num])),
-})
-/** A surface ready for three.js: #V×3 metres, #T×3 indices. */
-export interface SurfaceArrays {
-  vertices: Float32Array
-  triangles: Uint32Array
-}
 
 export const mailMessage = z.object({
   id, to: z.string(), subject: z.string(), text: z.string(), html: z.string().nullish(), date: z.string(),
@@ -83,13 +62,13 @@ const replies = {
   preview: z.object({ invite: invitePreview }),
   accepted: z.object({ roomId: id, role: roomRole }),
   member: z.object({ member: z.object({ userId: id, role: roomRole }) }),
-  pin: z.object({ pin }),
-  pins: z.object({ pins: z.array(pin) }),
+  pin: z.object({ pin: pinSchema }),
+  pins: z.object({ pins: z.array(pinSchema) }),
   snapshot: z.object({ snapshot: snapshotDetail }),
   snapshots: z.object({ snapshots: z.array(snapshotSummary) }),
   created: z.object({ snapshot: snapshotSummary }),
-  surface: surfaceResult,
-  frame: z.object({ frame }),
+  surface: surfaceMeshJsonSchema,
+  frame: z.object({ frame: frameSchema }),
   mailbox: z.object({ messages: z.array(mailMessage) }),
   underlay: z.object({ underlay: underlayMeta.nullable() }),
 }
@@ -143,10 +122,8 @@ export const getSnapshot = async (roomId: string, sid: string) =>
 /** DELETE /api/rooms/:id/snapshots/:sid (editor and up). */
 export const deleteSnapshot = (roomId: string, sid: string) => request('DELETE', `${roomPath(roomId)}/snapshots/${enc(sid)}`, undefined, null)
 /** GET /api/rooms/:id/snapshots/:sid/surface, as typed arrays. */
-export async function getSnapshotSurface(roomId: string, sid: string): Promise<SurfaceArrays> {
-  const s = await request('GET', `${roomPath(roomId)}/snapshots/${enc(sid)}/surface`, undefined, replies.surface)
-  return { vertices: Float32Array.from(s.vertices.flat()), triangles: Uint32Array.from(s.triangles.flat()) }
-}
+export const getSnapshotSurface = (roomId: string, sid: string): Promise<SurfaceMesh> =>
+  request('GET', `${roomPath(roomId)}/snapshots/${enc(sid)}/surface`, undefined, replies.surface)
 
 // ── files ────────────────────────────────────────────────────────────────────────────────────
 /** Download links (viewer and up); `snapshotId` gives the snapshot's files instead of the room's. */

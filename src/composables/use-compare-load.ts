@@ -2,7 +2,8 @@
  * Loads two snapshots for the comparison view and works out the distance colouring of B against A.
  */
 import { computed, ref, shallowRef, watch, type Ref } from 'vue'
-import type { SnapshotDetail, SurfaceArrays } from '../api/team'
+import type { SnapshotDetail } from '../api/team'
+import type { SurfaceMesh } from '../../shared/protocol'
 import { useSnapshotsStore } from '../stores/snapshots'
 import { figureDifferences } from './use-compare'
 import { DISTANCE_RAMP, legendMax, rampColours } from './use-compare-colours'
@@ -11,7 +12,7 @@ import type { SceneSurface } from './use-compare-scene'
 
 interface Side {
   detail: SnapshotDetail
-  surface: SurfaceArrays
+  surface: SurfaceMesh
 }
 
 export function useSnapshotCompare(roomId: Ref<string>, aId: Ref<string | null>, bId: Ref<string | null>) {

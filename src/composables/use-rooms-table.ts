@@ -3,7 +3,7 @@ import { NButton, NSpace, NTag, NTooltip, type DataTableColumns } from 'naive-ui
 import { RouterLink } from 'vue-router'
 import type { RoomSummary } from '../api/http'
 import { formatLastChange, formatTimestamp } from '../lib/format'
-import { canDelete, canRename, roleLabels, roleRights } from '../lib/roles'
+import { can, roleLabels, roleRights } from '../../shared/protocol'
 
 export interface RoomRowActions {
   rename: (room: RoomSummary) => void
@@ -50,10 +50,10 @@ export function useRoomsTable(actions: RoomRowActions): DataTableColumns<RoomSum
       width: 170,
       render: (room) =>
         h(NSpace, { size: 'small', justify: 'end', wrapItem: false }, () => [
-          canRename(room.role)
+          can(room.role, 'rename')
             ? h(NButton, { size: 'small', secondary: true, onClick: () => actions.rename(room) }, () => 'Rename')
             : null,
-          canDelete(room.role)
+          can(room.role, 'deleteRoom')
             ? h(NButton, { size: 'small', tertiary: true, type: 'error', onClick: () => actions.remove(room) }, () => 'Delete')
             : null,
         ]),

@@ -7,7 +7,7 @@
 import { shallowRef, watch, type ShallowRef } from 'vue'
 import * as THREE from 'three'
 import { surfaceColours, type ColourMode, type ColourRange } from '../components/workbench/colour-maps'
-import type { SurfaceData } from '../stores/workbench'
+import type { SurfaceMesh } from '../../shared/protocol'
 import type { Viewport } from './use-viewport'
 import { DEFAULT_FLAT_THRESHOLD } from '../../shared/figures/compute-figures'
 
@@ -15,7 +15,7 @@ import { DEFAULT_FLAT_THRESHOLD } from '../../shared/figures/compute-figures'
 export { DEFAULT_FLAT_THRESHOLD }
 
 export interface SurfaceSource {
-  surface(): SurfaceData | null
+  surface(): SurfaceMesh | null
   colourMode(): ColourMode
   flatThreshold(): number | undefined
 }

@@ -1,7 +1,7 @@
 import { ref } from 'vue'
 import { defineStore } from 'pinia'
 import * as team from '../api/team'
-import type { Pin } from '../api/team'
+import { pinChangedEventSchema, pinDeletedEventSchema, type Pin } from '../../shared/protocol'
 import { upsertPin } from '../composables/use-pin-filters'
 
 /** The part of a socket.io client the pins store listens on (the workbench's socket or our own). */
@@ -90,15 +90,14 @@ export const usePinsStore = defineStore('pins', () => {
 
   /** Follows `pin:changed` / `pin:deleted` for the loaded room; returns the unsubscribe function. */
   function listen(source: PinEventSource): () => void {
+    // a payload that does not parse is dropped: the next reload (on reconnect) brings the truth
     const changed = (raw: unknown): void => {
-      const m = raw as { roomId?: unknown; pin?: unknown } | null
-      if (m?.roomId !== roomId.value) return
-      const parsed = team.pin.safeParse(m?.pin)
-      if (parsed.success) merge(parsed.data)
+      const m = pinChangedEventSchema.safeParse(raw)
+      if (m.success && m.data.roomId === roomId.value) merge(m.data.pin)
     }
     const deleted = (raw: unknown): void => {
-      const m = raw as { roomId?: unknown; pinId?: unknown } | null
-      if (m?.roomId === roomId.value && typeof m?.pinId === 'string') dropLocal(m.pinId)
+      const m = pinDeletedEventSchema.safeParse(raw)
+      if (m.success && m.data.roomId === roomId.value) dropLocal(m.data.pinId)
     }
     source.on('pin:changed', changed)
     source.on('pin:deleted', deleted)

@@ -1,7 +1,8 @@
 import { ref } from 'vue'
 import { defineStore } from 'pinia'
 import * as team from '../api/team'
-import type { SnapshotDetail, SnapshotSummary, SurfaceArrays } from '../api/team'
+import type { SnapshotDetail, SnapshotSummary } from '../api/team'
+import type { SurfaceMesh } from '../../shared/protocol'
 
 export const useSnapshotsStore = defineStore('snapshots', () => {
   const roomId = ref<string | null>(null)
@@ -9,7 +10,7 @@ export const useSnapshotsStore = defineStore('snapshots', () => {
   const loading = ref(false)
   // Saved snapshots never change, so their details and meshes are kept once fetched.
   const details = new Map<string, Promise<SnapshotDetail>>()
-  const surfaces = new Map<string, Promise<SurfaceArrays>>()
+  const surfaces = new Map<string, Promise<SurfaceMesh>>()
 
   function room(): string {
     if (!roomId.value) throw new Error('snapshots store: load(roomId) first')

@@ -1,6 +1,5 @@
 import { computed, ref, shallowRef } from 'vue'
 import { defineStore } from 'pinia'
-import type { Figures, SolverReport } from '../../shared/types'
 import * as edits from '../../shared/room-doc/edits'
 import { writeFrame } from '../../shared/room-doc/schema'
 import type { EdgeKind, Frame } from '../../shared/types'
@@ -17,10 +16,9 @@ import {
   type SyncStatus,
 } from '../api/collaboration'
 import type { Socket } from 'socket.io-client'
-import { connectSurfaceStream, type SolveStateMessage, type SurfaceMessage, type SurfaceStream } from '../api/socket'
-import type { RoomRole } from '../api/schemas'
+import { connectSurfaceStream, type SurfaceStream } from '../api/socket'
+import { can, type RoomRole, type SolveStateEvent, type SurfaceEvent } from '../../shared/protocol'
 import { getUnderlayMeta, roomPath, type UnderlayMeta } from '../api/team'
-import { canEditFrame } from '../lib/roles'
 import type { ColourMode } from '../components/workbench/colour-maps'
 import { frameRows, readFrameView, type FrameView } from '../components/workbench/frame-view'
 import { DEFAULT_SNAP_STEP } from '../components/workbench/snapping'
@@ -31,21 +29,10 @@ export interface SolverStatus {
   version: number
   iteration?: number
   residual?: number
+  /** A solver reason code (words: reasonWords in shared/protocol/solver-reasons.ts). */
   reason?: string
   message?: string
   field?: string
-}
-
-/** The latest solved surface (typed arrays straight from the stream). */
-export interface SurfaceData {
-  version: number
-  coarse: boolean
-  stateVector: Uint8Array
-  /** #V×3, metres. */
-  vertices: Float32Array
-  /** #T×3 vertex indices. */
-  triangles: Uint32Array
-  solver: SolverReport
 }
 
 const emptyFrame = (): FrameView => ({
@@ -57,12 +44,13 @@ const emptyFrame = (): FrameView => ({
 export const useWorkbenchStore = defineStore('workbench', () => {
   const roomId = ref<string | null>(null)
   const role = ref<RoomRole>('viewer')
-  const readOnly = computed(() => !canEditFrame(role.value))
+  const readOnly = computed(() => !can(role.value, 'editFrame'))
   const frame = shallowRef<FrameView>(emptyFrame())
   const rows = computed(() => frameRows(frame.value))
   const selection = ref<HeldPoint | null>(null)
-  const surface = shallowRef<SurfaceData | null>(null)
-  const figures = shallowRef<Figures | null>(null)
+  /** The latest solved surface as streamed (typed arrays, figures, solver report). */
+  const surface = shallowRef<SurfaceEvent | null>(null)
+  const figures = computed(() => surface.value?.figures ?? null)
   const status = ref<SolverStatus>({ phase: 'offline', version: 0 })
   const sync = ref<SyncStatus>('connecting')
   const synced = ref(false)
@@ -93,11 +81,10 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   let stream: SurfaceStream | null = null
   let cleanups: (() => void)[] = []
 
-  function onSurface(msg: SurfaceMessage): void {
+  function onSurface(msg: SurfaceEvent): void {
     if (msg.roomId !== roomId.value) return
-    const { vertices, triangles, version, coarse, stateVector, solver } = msg
-    surface.value = { vertices, triangles, version, coarse, stateVector, solver }
-    figures.value = msg.figures
+    const { version, coarse, solver } = msg
+    surface.value = msg
     if (!coarse && version >= status.value.version)
       status.value = {
         phase: solver.converged ? 'settled' : 'unsettled',
@@ -108,7 +95,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
       }
   }
 
-  function onSolveState(msg: SolveStateMessage): void {
+  function onSolveState(msg: SolveStateEvent): void {
     if (msg.roomId !== roomId.value || msg.version < status.value.version) return
     const { state, version, reason, message, field } = msg
     status.value = { phase: state, version, reason, message, field }
@@ -205,7 +192,6 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     roomId.value = null
     frame.value = emptyFrame()
     surface.value = null
-    figures.value = null
     selection.value = null
     peers.value = []
     underlay.value = null

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { ApiError } from '../../src/api/http'
 import { splitApiError, useFormErrors } from '../../src/composables/use-form-errors'
 import { formatLastChange } from '../../src/lib/format'
-import { canDelete, canEditFrame, canRename } from '../../src/lib/roles'
+import { can, roleCovers, roomRoles, type RoomAction, type RoomRole } from '../../shared/protocol'
 import { checkRoom, checkSignUp } from '../../src/lib/validation'
 
 describe('server errors land beside the field they name', () => {
@@ -50,14 +50,23 @@ describe('checks before sending mirror the server rules (API contract, issue 2)'
   })
 })
 
-describe('role rules match the server (owner/editor edit, owner deletes; PRODUCT.md "Words")', () => {
-  it.each([
-    ['owner', true, true, true],
-    ['editor', true, false, true],
-    ['reviewer', false, false, false],
-    ['viewer', false, false, false],
-  ] as const)('%s: rename %s, delete %s, edit frame %s', (role, rename, remove, edit) => {
-    expect([canRename(role), canDelete(role), canEditFrame(role)]).toEqual([rename, remove, edit])
+describe('role table (shared/protocol/roles.ts) against PRODUCT.md "Words"', () => {
+  // PRODUCT.md: owner all rights / editor edit frame, snapshots, pins / reviewer pins only / viewer read only.
+  const everything: RoomAction[] = ['read', 'pin', 'resolvePin', 'editFrame', 'snapshot', 'rename', 'manageMembers', 'deleteRoom']
+  const allowed = (role: RoomRole) => everything.filter((a) => can(role, a))
+
+  it('owner: all rights', () => expect(allowed('owner')).toEqual(everything))
+  it('editor: frame, snapshots, pins, but not the members or the room itself', () => {
+    expect(can('editor', 'editFrame') && can('editor', 'snapshot') && can('editor', 'pin')).toBe(true)
+    expect(can('editor', 'manageMembers') || can('editor', 'deleteRoom')).toBe(false)
+  })
+  it('reviewer: pins only', () => expect(allowed('reviewer')).toEqual(['read', 'pin']))
+  it('viewer: read only', () => expect(allowed('viewer')).toEqual(['read']))
+  it('each role has every right of the roles listed after it (an accepted invite never lowers a role)', () => {
+    roomRoles.forEach((role, i) => {
+      for (const weaker of roomRoles.slice(i + 1)) expect(roleCovers(role, weaker), `${role} ⊇ ${weaker}`).toBe(true)
+      for (const stronger of roomRoles.slice(0, i)) expect(roleCovers(role, stronger), `${role} ⊉ ${stronger}`).toBe(false)
+    })
   })
 })
 

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { Awareness } from 'y-protocols/awareness'
-import { asFloat32, asUint32, readSolveProgress, readSolveState, readSurface } from '../../src/api/socket'
-import { listPeers, ownAwarenessChange, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
+import { float32Schema, parseServerEvent, reasonWords, solverReasons, uint32Schema } from '../../shared/protocol'
+import { PRESENCE_COLOURS, listPeers, ownAwarenessChange, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
 
 const figures = {
   area: 70.2,
@@ -39,7 +39,11 @@ function message(overrides: Record<string, unknown> = {}) {
   }
 }
 
-describe('surface stream messages', () => {
+const readSurface = (raw: unknown) => parseServerEvent('surface', raw)
+const readSolveState = (raw: unknown) => parseServerEvent('solve:state', raw)
+const readSolveProgress = (raw: unknown) => parseServerEvent('solve:progress', raw)
+
+describe('surface stream messages (shared/protocol/events.ts)', () => {
   it('wraps binary fields back into typed arrays with the same values', () => {
     const s = readSurface(message())
     expect(s.vertices).toBeInstanceOf(Float32Array)
@@ -55,14 +59,15 @@ describe('surface stream messages', () => {
     new DataView(bytes.buffer).setFloat32(1, 2.5, true)
     new DataView(bytes.buffer).setFloat32(5, -1, true)
     new DataView(bytes.buffer).setFloat32(9, 7, true)
-    expect(Array.from(asFloat32(bytes.subarray(1), 'vertices'))).toEqual([2.5, -1, 7])
+    expect(Array.from(float32Schema.parse(bytes.subarray(1)))).toEqual([2.5, -1, 7])
   })
 
   it('names the field and the reason for malformed data', () => {
-    expect(() => asUint32(new ArrayBuffer(6), 'triangles')).toThrow(
+    expect(() => readSurface(message({ triangles: new ArrayBuffer(6) }))).toThrow(
       'surface.triangles: 6 bytes is not a whole number of 4-byte values',
     )
-    expect(() => asFloat32('abc', 'vertices')).toThrow('surface.vertices: expected binary data')
+    expect(uint32Schema.safeParse(new ArrayBuffer(8)).success).toBe(true)
+    expect(() => readSurface(message({ vertices: 'abc' }))).toThrow('surface.vertices: expected binary data, got string')
     expect(() => readSurface(message({ triangles: new Uint32Array([0, 1, 9]).buffer }))).toThrow(
       'surface.triangles: vertex index 9 is out of range (3 vertices)',
     )
@@ -90,14 +95,23 @@ describe('surface stream messages', () => {
       message: 'Loop crosses itself',
       field: 'loops[0]',
     })
-    expect(() => readSolveState({ roomId: 'r1', state: 'done' })).toThrow('solve:state.state: unknown state done')
+    expect(() => readSolveState({ roomId: 'r1', version: 4, state: 'done' })).toThrow(/^solve:state\.state: /)
     expect(readSolveProgress({ roomId: 'r1', version: 4, iteration: 3, residual: 0.01 })).toEqual({
       roomId: 'r1',
       version: 4,
       iteration: 3,
       residual: 0.01,
     })
-    expect(() => readSolveProgress({ roomId: 'r1', iteration: '3' })).toThrow(/iteration and residual/)
+    expect(() => readSolveProgress({ roomId: 'r1', version: 4, iteration: '3', residual: 1 })).toThrow(/^solve:progress\.iteration: /)
+  })
+
+  it('turns a reason code this version does not know into words, never the code', () => {
+    expect(readSolveState({ roomId: 'r1', version: 4, state: 'unsettled', reason: 'zeta-overflow' }).reason).toBe('unknown')
+    for (const code of [...solverReasons, 'stalled', 'line-search-failed', 'zeta-overflow', undefined]) {
+      const words = reasonWords(code)
+      expect(words).toMatch(/^[a-z][a-z ,()]+$/)
+      if (code) expect(words).not.toContain(code)
+    }
   })
 })
 
@@ -118,9 +132,14 @@ describe('presence', () => {
     expect(readPresence({ user: { id: 'u', name: 'n', color: '#aabbcc' }, held: { loopId: 3 } })?.held).toBeNull()
   })
 
-  it('gives a person the same colour every time, in #rrggbb form', () => {
-    expect(presenceColour('42')).toBe(presenceColour('42'))
-    expect(presenceColour('42')).toMatch(/^#[0-9a-f]{6}$/)
+  it('gives people colours from the palette, spread over it rather than all alike', () => {
+    const ids = Array.from({ length: 40 }, (_, i) => `user-${i}`)
+    const colours = ids.map(presenceColour)
+    for (const c of colours) expect(PRESENCE_COLOURS).toContain(c)
+    // 40 ids over the palette: a hash that ignored the id (or most of it) would use one or two colours
+    expect(new Set(colours).size).toBeGreaterThanOrEqual(Math.ceil(PRESENCE_COLOURS.length / 2))
+    // the id decides, not the call: a copy of the same id built another way gets the same colour
+    expect(presenceColour(['user', '7'].join('-'))).toBe(colours[7])
   })
 
   it('builds the sync URL from the page location', () => {

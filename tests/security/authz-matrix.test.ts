@@ -214,7 +214,7 @@ describe('socket.io events × callers', () => {
   async function joinAndLeave(who: Who, roomId: string) {
     const socket = connectStream(live.url, cookies[who])
     const seen: string[] = []
-    socket.on('probe', (p: { n: number }) => seen.push(`probe${p.n}`))
+    socket.on('pin:deleted', (p: { pinId: string }) => seen.push(p.pinId))
     try {
       const connected = await new Promise<string>((resolve) => {
         socket.once('connect', () => resolve('connected'))
@@ -222,11 +222,11 @@ describe('socket.io events × callers', () => {
       })
       if (connected !== 'connected') return { join: `refused: ${connected}`, leave: 'refused' }
       const ack = (await socket.timeout(10_000).emitWithAck('room:join', { roomId })) as { ok: boolean; role?: string; error?: { code: string } }
-      live.realtime.emitToRoom(roomId, 'probe', { n: 1 })
+      live.realtime.emitToRoom(roomId, 'pin:deleted', { roomId, pinId: 'probe1' })
       await new Promise((r) => setTimeout(r, 150))
       socket.emit('room:leave', { roomId })
       await new Promise((r) => setTimeout(r, 150))
-      live.realtime.emitToRoom(roomId, 'probe', { n: 2 })
+      live.realtime.emitToRoom(roomId, 'pin:deleted', { roomId, pinId: 'probe2' })
       await new Promise((r) => setTimeout(r, 150))
       return { join: ack.ok ? `ok as ${ack.role}` : `refused: ${ack.error?.code}`, leave: seen.join(',') || 'none' }
     } finally {

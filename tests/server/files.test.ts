@@ -165,7 +165,7 @@ describe('downloads', () => {
     expect(obj.match(/^v /gm)).toHaveLength(surface.vertices.length / 3)
     expect(obj.match(/^f /gm)).toHaveLength(surface.triangles.length / 3)
     const stl = await download(cast.clients.viewer, `${room()}/surface.stl`)
-    expect(stl.bytes.toString().split('\n')[0]).toMatch(/^solid veilroom_surface PRELIMINARY/)
+    expect(stl.bytes.toString().split('\n')[0]).toMatch(/^solid veilroom_surface Preliminary form-finding result: Form-finding results are preliminary/)
     expect(stl.bytes.toString().match(/facet normal/g)).toHaveLength(surface.triangles.length / 3)
     const csv = await download(cast.clients.viewer, `${room()}/figures.csv`)
     expect(csv.headers.get('content-type')).toMatch(/^text\/csv/)

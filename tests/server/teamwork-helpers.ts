@@ -6,7 +6,8 @@ import { MembershipEntity, type RoomRole } from '../../server/db/entities/index.
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp.js'
 import { dbMailbox } from '../../server/mail/mailbox.js'
 import type { Running } from '../../server/main.js'
-import type { LatestSurface, RoomLive } from '../../server/modules/snapshots/room-live.js'
+import type { RoomLive } from '../../server/modules/snapshots/room-live.js'
+import type { VersionedSurface } from '../../shared/protocol/index.js'
 import type { Frame, SurfaceResult } from '../../shared/types.js'
 import { SESSION_COOKIE } from '../../server/session.js'
 import { ApiClient, startTestServer } from '../helpers/test-server.js'
@@ -31,6 +32,7 @@ export function recordingLive(inner?: Partial<RoomLive>): RecordingLive {
       live.closed.push({ roomId, userId })
       inner?.closeRoomSockets?.(roomId, userId)
     },
+    ensureRoomFrame: (roomId, starter) => inner?.ensureRoomFrame?.(roomId, starter) ?? Promise.resolve(false),
   }
   return live
 }
@@ -130,7 +132,7 @@ export async function mailTo(client: ApiClient, to: string, seen = new Set<strin
 export function engineLive(solve: (frame: Frame) => SurfaceResult) {
   let frame: Frame | null = null
   let version = 0
-  let surface: LatestSurface | null = null
+  let surface: VersionedSurface | null = null
   let settledVersion = -1
   return {
     setFrame(next: Frame | null, { settle = true } = {}) {

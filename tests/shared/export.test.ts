@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import { CAUTION } from '../../shared/protocol'
 import { figuresToCsv, surfaceResultToJson, toObj, toStl, toSurfaceResult } from '../../shared/export'
 import { computeFigures } from '../../shared/figures'
 import { meshFrame } from '../../shared/mesh'
@@ -12,8 +13,9 @@ const report: SolverReport = { method: 'test-start-mesh', iterations: 0, residua
 const result = toSurfaceResult(mesh, computeFigures(mesh, frame), report)
 
 describe('exports', () => {
-  it('surface result JSON has the PRODUCT.md shape and survives a JSON round trip', () => {
-    const back = JSON.parse(surfaceResultToJson(result))
+  it('surface result JSON has the PRODUCT.md shape plus the caution and survives a JSON round trip', () => {
+    const { caution, ...back } = JSON.parse(surfaceResultToJson(result))
+    expect(caution).toBe(CAUTION)
     expect(Object.keys(back).sort()).toEqual(['figures', 'solver', 'triangles', 'vertices'])
     expect(back.vertices).toHaveLength(mesh.vertices.length / 3)
     expect(back.triangles[0]).toHaveLength(3)
@@ -34,8 +36,9 @@ describe('exports', () => {
 
   it('ASCII STL: solid/facet/outer loop structure, unit normals along +z for a counter-clockwise plan mesh', () => {
     const stl = toStl(result)
-    expect(stl.startsWith('solid ')).toBe(true)
-    expect(stl.trim().endsWith('endsolid veilroom_surface')).toBe(true)
+    // ASCII STL has no comments: the caution rides in the solid name (first and last line)
+    expect(stl.split('\n')[0]).toBe(`solid veilroom_surface Preliminary form-finding result: ${CAUTION}`)
+    expect(stl.trim().endsWith(`endsolid veilroom_surface Preliminary form-finding result: ${CAUTION}`)).toBe(true)
     const normals = [...stl.matchAll(/facet normal (\S+) (\S+) (\S+)/g)].map((m) => m.slice(1).map(Number))
     expect(normals).toHaveLength(result.triangles.length)
     for (const n of normals) {

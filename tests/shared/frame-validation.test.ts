@@ -92,7 +92,7 @@ describe('frame validation names the field and the reason', () => {
   it('limits: too many frame points, mesh too fine', () => {
     expect(refusal(frameFile(circleLoop(2001, 100)))).toMatchObject({ code: 'too-many-points', field: 'loops[0].points' })
     expect(refusal(frameFile(circleLoop(1000, 50), [circleLoop(1001, 10, 0, 0, 0, true)], 5))).toMatchObject({ code: 'too-many-points', field: 'loops' })
-    // 100 m × 100 m at h = 0.2 m: 10⁴ / (0.433 · 0.04) ≈ 577 000 vertices > 200 000
+    // 100 m × 100 m at h = 0.2 m: 10⁴ / (0.866 · 0.04) ≈ 289 000 vertices > 100 000 (hexagonal lattice, elementary geometry)
     const fine = refusal(frameFile(squareLoop(100), [], 0.2))
     expect([fine.code, fine.field]).toEqual(['mesh-too-fine', 'mesh.edgeLength'])
     expect(fine.reason).toMatch(/mesh too fine/)

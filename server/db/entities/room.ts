@@ -1,9 +1,9 @@
 import { EntitySchema } from 'typeorm'
 import type { User } from './user.js'
+import { roomRoles, type RoomRole } from '../../../shared/protocol/roles.js'
 
-/** Room roles, strongest first: all rights / edit frame, snapshots, pins / pins only / read only. */
-export const roomRoles = ['owner', 'editor', 'reviewer', 'viewer'] as const
-export type RoomRole = (typeof roomRoles)[number]
+// What each role may do: shared/protocol/roles.ts.
+export { roomRoles, type RoomRole }
 
 export interface Room {
   id: string

@@ -3,7 +3,7 @@ import { figuresToCsv, toObj, toStl } from '../../../shared/export/index.js'
 import { frameToJson } from '../../../shared/frame/index.js'
 import type { ReportPin } from '../../../shared/report/index.js'
 import type { Frame, SurfaceResult } from '../../../shared/types.js'
-import { CAUTION, cautionLines } from './caution.js'
+import { CAUTION } from '../../../shared/protocol/index.js'
 
 export type DownloadKind = 'frame.json' | 'surface.obj' | 'surface.stl' | 'figures.csv'
 export const downloadKinds: readonly DownloadKind[] = ['frame.json', 'surface.obj', 'surface.stl', 'figures.csv']
@@ -39,17 +39,16 @@ export interface DownloadData {
   pins?: ReportPin[]
 }
 
-/** The body and content type of one download; OBJ and CSV start with the caution as comments. */
+/** The body and content type of one download; OBJ, STL and CSV carry the caution (shared/export). */
 export function renderDownload(kind: DownloadKind, data: DownloadData): { body: string; type: string } {
-  const header = `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n${cautionLines('# ')}`
+  const header = `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n`
   switch (kind) {
     case 'frame.json':
       return { body: frameDownload(data.frame!), type: 'application/json; charset=utf-8' }
     case 'surface.obj':
       return { body: header + toObj(data.surface!), type: 'text/plain; charset=utf-8' }
     case 'surface.stl':
-      // ASCII STL has no comment syntax: the caution rides in the solid's name line.
-      return { body: toStl(data.surface!, `veilroom_surface PRELIMINARY form-finding result: ${CAUTION}`), type: 'model/stl' }
+      return { body: toStl(data.surface!), type: 'model/stl' }
     case 'figures.csv':
       return {
         body: `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n` +

@@ -4,7 +4,7 @@ import { RoomEntity } from '../../db/entities/index.js'
 import { AppError } from '../../lib/app-error.js'
 import { pinView } from '../pins/pins-service.js'
 import { pinsRepository } from '../pins/pins-repository.js'
-import { requireRoomRole } from '../rooms/room-access.js'
+import { requireRoomAction } from '../rooms/room-access.js'
 import type { RoomLive } from '../snapshots/room-live.js'
 import { roomIdOf, snapshotId } from '../snapshots/snapshots-routes.js'
 import { surfaceResult, type SnapshotsService } from '../snapshots/snapshots-service.js'
@@ -18,8 +18,8 @@ const noFile = (field: string) => new AppError('invalid_upload', 400, `Attach th
 /** Frame import, the underlay image, and downloads of the room's and snapshots' frame, surface and figures. */
 export function filesRoutes(dataSource: DataSource, live: RoomLive, snapshots: SnapshotsService): Router {
   const router = Router()
-  const viewer = requireRoomRole(dataSource, 'viewer')
-  const editor = requireRoomRole(dataSource, 'editor')
+  const viewer = requireRoomAction(dataSource, 'read')
+  const editor = requireRoomAction(dataSource, 'editFrame')
   const underlay = underlayService(dataSource)
   const frameUpload = singleUpload('file', FRAME_FILE_BYTES, 3)
   const imageUpload = singleUpload('image', UNDERLAY_BYTES, 7)

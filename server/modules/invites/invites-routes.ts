@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import { AppError } from '../../lib/app-error.js'
-import { requireRoomRole, requireUser, roomRole } from '../rooms/room-access.js'
+import { requireRoomAction, requireUser, roomRole } from '../rooms/room-access.js'
 import type { InvitesService } from './invites-service.js'
 import { createInviteBody, inviteToken, memberRoleBody, uuidParam } from './invites-schema.js'
 import type { membersService } from './members-service.js'
@@ -20,8 +20,8 @@ const parseId = (raw: unknown, code: string, what: string): string => {
 /** Invites (/api/rooms/:id/invites, /api/invites/:token) and member roles (/api/rooms/:id/members/:userId). */
 export function invitesRoutes(dataSource: DataSource, invites: InvitesService, members: ReturnType<typeof membersService>): Router {
   const router = Router()
-  const owner = requireRoomRole(dataSource, 'owner')
-  const viewer = requireRoomRole(dataSource, 'viewer')
+  const owner = requireRoomAction(dataSource, 'manageMembers')
+  const viewer = requireRoomAction(dataSource, 'read')
 
   router.post('/rooms/:id/invites', owner, async (req, res) => {
     const body = createInviteBody.parse(req.body)

@@ -4,7 +4,7 @@ import type { Invite, RoomRole } from '../../db/entities/index.js'
 import { AppError, notFound } from '../../lib/app-error.js'
 import { logger } from '../../lib/logger.js'
 import type { Mailer } from '../../mail/mailer.js'
-import { roleAtLeast } from '../rooms/room-access.js'
+import { roleCovers } from '../../../shared/protocol/index.js'
 import { inviteMail } from './invite-mail.js'
 import { invitesRepository, locked } from './invites-repository.js'
 import type { CreateInviteBody } from './invites-schema.js'
@@ -103,7 +103,7 @@ export function invitesService({ dataSource, mailer, publicUrl }: InviteDeps) {
           await q.insertMembership({ id: randomUUID(), roomId: invite.roomId, userId, role: invite.role })
           return { roomId: invite.roomId, role: invite.role }
         }
-        if (roleAtLeast(member.role, invite.role)) return { roomId: invite.roomId, role: member.role }
+        if (roleCovers(member.role, invite.role)) return { roomId: invite.roomId, role: member.role }
         await q.setRole(member.id, invite.role)
         return { roomId: invite.roomId, role: invite.role }
       })

@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import { AppError } from '../../lib/app-error.js'
-import { requireRoomRole, roomRole } from '../rooms/room-access.js'
+import { requireRoomAction, roomRole } from '../rooms/room-access.js'
 import { createPinBody, listPinsQuery, patchPinBody, replyBody } from './pins-schema.js'
 import type { pinsService } from './pins-service.js'
 
@@ -14,8 +14,8 @@ const pinId = (raw: unknown): string => {
 /** /api/rooms/:id/pins — review comments anchored to points of the surface. */
 export function pinsRoutes(dataSource: DataSource, pins: ReturnType<typeof pinsService>): Router {
   const router = Router()
-  const viewer = requireRoomRole(dataSource, 'viewer')
-  const reviewer = requireRoomRole(dataSource, 'reviewer')
+  const viewer = requireRoomAction(dataSource, 'read')
+  const reviewer = requireRoomAction(dataSource, 'pin')
 
   router.get('/rooms/:id/pins', viewer, async (req, res) => {
     const q = listPinsQuery.parse(req.query)

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import type { DataSource } from 'typeorm'
 import type { RoomRole, User } from '../../db/entities/index.js'
 import { forbidden, notFound } from '../../lib/app-error.js'
-import { roleAtLeast } from '../rooms/room-access.js'
+import { can } from '../../../shared/protocol/index.js'
 import type { RoomLive } from '../snapshots/room-live.js'
 import { pinsRepository, type PinRow } from './pins-repository.js'
 import type { CreatePinBody, ListPinsQuery, PatchPinBody } from './pins-schema.js'
@@ -60,7 +60,7 @@ export function pinsService(dataSource: DataSource, live: Pick<RoomLive, 'emitTo
     async patch(roomId: string, pinId: string, patch: PatchPinBody, actor: { id: string; role: RoomRole }): Promise<PinView> {
       const pin = await load(roomId, pinId)
       if (patch.body !== undefined && pin.authorId !== actor.id) throw forbidden('Only the pin’s author can change its text.')
-      if (patch.resolved !== undefined && !roleAtLeast(actor.role, 'editor')) {
+      if (patch.resolved !== undefined && !can(actor.role, 'resolvePin')) {
         throw forbidden('Only editors and owners can resolve or reopen a pin.')
       }
       await repo.update(pinId, patch)

@@ -1,14 +1,14 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import type { RoomLive } from '../snapshots/room-live.js'
-import { requireRoomRole, requireUser } from './room-access.js'
+import { requireRoomAction, requireUser } from './room-access.js'
 import { createRoomBody, updateRoomBody } from './rooms-schema.js'
 import type { RoomsService } from './rooms-service.js'
 
-/** /api/rooms: thin handlers; the service holds the rules, requireRoomRole the access. */
+/** /api/rooms: thin handlers; the service holds the rules, requireRoomAction the access. */
 export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<RoomLive, 'ensureRoomFrame'>): Router {
   const router = Router()
-  const viewer = requireRoomRole(dataSource, 'viewer')
+  const viewer = requireRoomAction(dataSource, 'read')
 
   router.get('/', requireUser, async (req, res) => {
     res.json({ rooms: await rooms.list(req.user!.id) })
@@ -26,12 +26,12 @@ export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: 
     res.json({ room: await rooms.get(req.params.id as string, req.user!.id) })
   })
 
-  router.patch('/:id', requireRoomRole(dataSource, 'editor'), async (req, res) => {
+  router.patch('/:id', requireRoomAction(dataSource, 'rename'), async (req, res) => {
     const body = updateRoomBody.parse(req.body)
     res.json({ room: await rooms.update(req.params.id as string, body, req.user!.id) })
   })
 
-  router.delete('/:id', requireRoomRole(dataSource, 'owner'), async (req, res) => {
+  router.delete('/:id', requireRoomAction(dataSource, 'deleteRoom'), async (req, res) => {
     await rooms.remove(req.params.id as string)
     res.status(204).end()
   })

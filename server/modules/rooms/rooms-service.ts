@@ -4,7 +4,7 @@ import { roomNotFound } from './room-access.js'
 import { roomsRepository, type MemberView, type RoomView } from './rooms-repository.js'
 import type { CreateRoomBody, UpdateRoomBody } from './rooms-schema.js'
 
-/** Room rules. Role checks happen in requireRoomRole before these run. */
+/** Room rules. Role checks happen in requireRoomAction (shared/protocol/roles.ts) before these run. */
 export function roomsService(dataSource: DataSource) {
   const rooms = roomsRepository(dataSource)
 

@@ -1,30 +1,8 @@
-import type { Figures, Frame, SolverReport } from '../../../shared/types.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { AppError } from '../../lib/app-error.js'
-import type { StarterKey } from '../../../shared/room-doc/starters.js'
 
-/** The room's last settled (fine) surface, as the realtime layer keeps it. */
-export interface LatestSurface {
-  version: number
-  /** #V×3, metres. */
-  vertices: Float32Array
-  /** #T×3 vertex indices. */
-  triangles: Uint32Array
-  figures: Figures
-  solver: SolverReport
-}
-
-/**
- * What the team-work modules need from the live room (server/realtime/index.ts provides it; see
- * /work/notes/protocol.md "Server-side accessors"). Passed in, so these modules do not load sockets.
- */
-export interface RoomLive {
-  getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number }>
-  getLatestSurface(roomId: string): Promise<LatestSurface | null>
-  emitToRoom(roomId: string, event: string, payload: unknown): void
-  closeRoomSockets(roomId?: string, userId?: string): void
-  /** Gives a new room's empty document a starting frame (optional: test doubles may leave it out). */
-  ensureRoomFrame?(roomId: string, starter: StarterKey): Promise<boolean>
-}
+/** What the team-work modules need from the live room (server/live-room-port). */
+export type RoomLive = LiveRoomPort
 
 /** A RoomLive whose implementation is attached once the realtime layer is up (after createApp). */
 export interface LateRoomLive extends RoomLive {
@@ -50,6 +28,6 @@ export function lateRoomLive(): LateRoomLive {
     closeRoomSockets: (roomId, userId) => impl?.closeRoomSockets(roomId, userId),
     // without a live room (team-work test servers) a new room keeps the blank frame an empty
     // document gets on its first load
-    ensureRoomFrame: (roomId, starter) => impl?.ensureRoomFrame?.(roomId, starter) ?? Promise.resolve(false),
+    ensureRoomFrame: (roomId, starter) => impl?.ensureRoomFrame(roomId, starter) ?? Promise.resolve(false),
   }
 }

@@ -1,10 +1,10 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import { AppError } from '../../lib/app-error.js'
-import { requireRoomRole } from '../rooms/room-access.js'
+import { requireRoomAction } from '../rooms/room-access.js'
 import { createSnapshotBody } from './snapshots-schema.js'
 import { surfaceResult, type SnapshotsService } from './snapshots-service.js'
-import { CAUTION } from '../files/caution.js'
+import { CAUTION } from '../../../shared/protocol/index.js'
 
 const uuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 export const snapshotId = (raw: unknown): string => {
@@ -16,8 +16,8 @@ export const roomIdOf = (raw: unknown): string => String(raw).toLowerCase()
 /** /api/rooms/:id/snapshots — named copies of frame + surface + figures. */
 export function snapshotsRoutes(dataSource: DataSource, snapshots: SnapshotsService): Router {
   const router = Router()
-  const viewer = requireRoomRole(dataSource, 'viewer')
-  const editor = requireRoomRole(dataSource, 'editor')
+  const viewer = requireRoomAction(dataSource, 'read')
+  const editor = requireRoomAction(dataSource, 'snapshot')
 
   router.get('/rooms/:id/snapshots', viewer, async (req, res) => {
     res.json({ snapshots: await snapshots.list(roomIdOf(req.params.id)) })

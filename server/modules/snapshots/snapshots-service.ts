@@ -3,7 +3,8 @@ import type { DataSource } from 'typeorm'
 import type { Figures, Frame, SurfaceResult } from '../../../shared/types.js'
 import type { Snapshot, User } from '../../db/entities/index.js'
 import { AppError, notFound } from '../../lib/app-error.js'
-import type { LatestSurface, RoomLive } from './room-live.js'
+import type { VersionedSurface } from '../../../shared/protocol/index.js'
+import type { RoomLive } from './room-live.js'
 import type { CreateSnapshotBody } from './snapshots-schema.js'
 import { snapshotsRepository } from './snapshots-repository.js'
 import { decodeSurface, encodeSurface, type StoredSurface } from './surface-codec.js'
@@ -45,7 +46,7 @@ export function snapshotsService(dataSource: DataSource, live: Pick<RoomLive, 'g
   }
 
   /** The room's frame with the settled surface solved from it; 409 while there is none or it lags an edit. */
-  async function current(roomId: string): Promise<{ frame: Frame; surface: LatestSurface }> {
+  async function current(roomId: string): Promise<{ frame: Frame; surface: VersionedSurface }> {
     const { frame, version } = await live.getRoomFrame(roomId)
     if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame yet.')
     const surface = await live.getLatestSurface(roomId)

@@ -1,0 +1,24 @@
+/**
+ * What the HTTP modules (rooms, pins, snapshots, files, invites) may ask of the live room, as one
+ * small interface: the realtime layer (server/realtime/index.ts) implements it and is built before
+ * the routes, which receive it as a plain argument. Event names and payloads are the shared
+ * protocol's (shared/protocol/events.ts).
+ */
+import type { StarterKey } from '../../shared/room-doc/starters.js'
+import type { ServerEvent, ServerPayload, VersionedSurface } from '../../shared/protocol/index.js'
+import type { Frame } from '../../shared/types.js'
+
+/** Sends a typed event to everyone who joined the room. */
+export type RoomEmit = <E extends ServerEvent>(roomId: string, event: E, payload: ServerPayload<E>) => void
+
+export interface LiveRoomPort {
+  /** The room's current frame (null when the document holds an invalid one) and version. */
+  getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number }>
+  /** The room's last settled fine surface (solved on demand when the room was not loaded). */
+  getLatestSurface(roomId: string): Promise<VersionedSurface | null>
+  emitToRoom: RoomEmit
+  /** Closes the live sockets (sync and surface stream) of a room and/or a user. */
+  closeRoomSockets(roomId?: string, userId?: string): void
+  /** Gives a new room's empty document a starting frame; false when it already had one. */
+  ensureRoomFrame(roomId: string, starter: StarterKey): Promise<boolean>
+}

@@ -1,0 +1,8 @@
+export * from './caution'
+export * from './events'
+export * from './frame'
+export * from './pins'
+export * from './roles'
+export * from './solver-reasons'
+export * from './surface'
+export { float32Schema, uint32Schema, uint8Schema } from './binary'
