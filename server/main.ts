@@ -7,6 +7,7 @@ import { loadConfig, type Config } from './config.js'
 import { createDataSource } from './db/data-source.js'
 import { seedDemo } from './db/seed.js'
 import { logger, setLogLevel } from './lib/logger.js'
+import { installProcessGuards } from './lib/process-guards.js'
 import { attachRealtime, type Realtime } from './realtime/index.js'
 
 export interface StartOptions {
@@ -37,6 +38,7 @@ let current: Running | null = null
 export async function start(options: StartOptions = {}): Promise<Running> {
   const config = options.config ?? loadConfig()
   setLogLevel(config.LOG_LEVEL)
+  installProcessGuards()
   const dataSource = createDataSource(config)
   await dataSource.initialize()
   const ran = await dataSource.runMigrations({ transaction: 'each' })

@@ -12,8 +12,11 @@ import type { Frame } from '../../shared/types.js'
 export type RoomEmit = <E extends ServerEvent>(roomId: string, event: E, payload: ServerPayload<E>) => void
 
 export interface LiveRoomPort {
-  /** The room's current frame (null when the document holds an invalid one) and version. */
-  getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number }>
+  /**
+   * The room's current frame and version. `frame` is null when the document is empty or invalid;
+   * `invalid` then names the path (`loops[0].points[2]`) and the reason (shared/room-doc/read.ts).
+   */
+  getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number; invalid?: { path: string; message: string } }>
   /** The room's last settled fine surface (solved on demand when the room was not loaded). */
   getLatestSurface(roomId: string): Promise<VersionedSurface | null>
   emitToRoom: RoomEmit

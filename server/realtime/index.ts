@@ -10,8 +10,7 @@ import type { StarterKey } from '../../shared/room-doc/starters.js'
 import type { Config } from '../config.js'
 import { allowedOrigins } from './access.js'
 import { RoomDocs, type RoomDocsOptions } from './room-docs.js'
-import { readRawFrame } from '../../shared/room-doc/schema.js'
-import { validateRoomFrame } from './engine-link.js'
+import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { createSolveLoop, type SolveLoop } from './solve-loop.js'
 import type { LiveRoomPort } from '../live-room-port/index.js'
 import { SolvePool } from './solve-pool.js'
@@ -88,8 +87,9 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
     getRoomFrame: async (roomId) => {
       const room = await rooms.acquire(roomId)
       try {
-        const checked = validateRoomFrame(readRawFrame(room.doc))
-        return { frame: checked.ok ? checked.frame : null, version: room.version }
+        const read = readRoomFrame(room.doc)
+        if (read.kind === 'invalid') return { frame: null, version: room.version, invalid: { path: read.path, message: read.message } }
+        return { frame: read.kind === 'frame' ? read.frame : null, version: room.version }
       } finally {
         await rooms.release(room)
       }

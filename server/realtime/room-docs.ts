@@ -8,7 +8,8 @@ import { EventEmitter } from 'node:events'
 import * as Y from 'yjs'
 import { Awareness } from 'y-protocols/awareness'
 import type { DataSource } from 'typeorm'
-import { readRawFrame, writeFrame } from '../../shared/room-doc/schema.js'
+import { readRoomFrame } from '../../shared/room-doc/read.js'
+import { writeFrame } from '../../shared/room-doc/schema.js'
 import { starterFrame, type StarterKey } from '../../shared/room-doc/starters.js'
 import { logger } from '../lib/logger.js'
 import { appendUpdates, loadStoredRoom, storeCompacted } from './room-store.js'
@@ -135,7 +136,11 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
         await this.flush(room)
         return true
       }
-      if (readRawFrame(room.doc) !== null) return false
+      const read = readRoomFrame(room.doc)
+      // A broken document is left for its members to repair (undo, import, snapshot restore),
+      // never overwritten here: it may be one bad value in a frame someone worked on for hours.
+      if (read.kind === 'invalid') logger.warn('realtime: room document holds an invalid frame', { roomId, path: read.path, message: read.message })
+      if (read.kind !== 'empty') return false
       writeFrame(room.doc, starterFrame(starterKey), SEED)
       await this.flush(room)
       return true

@@ -6,12 +6,12 @@
  * older one is cancelled. A large frame without warm state gets a coarse preview first.
  */
 import * as Y from 'yjs'
-import { readRawFrame } from '../../shared/room-doc/schema.js'
+import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { solverReasonSchema, type ServerPayload, type SolveStateEvent, type SurfaceEvent, type VersionedSurface } from '../../shared/protocol/index.js'
 import { edgeLengthFor } from '../../shared/mesh/lattice.js'
 import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
-import { estimatedVertices, frameMeshedArea, frameStructureKey, validateRoomFrame } from './engine-link.js'
+import { estimatedVertices, frameMeshedArea, frameStructureKey } from './engine-link.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
 import type { SolveHandle, SolvePool } from './solve-pool.js'
 import type { RoomEmit } from '../live-room-port/index.js'
@@ -71,19 +71,25 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     // Several updates in one tick (a sync step 2, a burst of moves) make one solve.
     setImmediate(() => {
       w.scheduled = false
-      if (watches.get(w.room.roomId) === w) kick(w)
+      if (watches.get(w.room.roomId) !== w) return
+      // Nothing may escape a timer callback (it would end the process): log, and keep this room's
+      // last state; the next change tries again.
+      try {
+        kick(w)
+      } catch (err) {
+        logger.error('realtime: solve loop step failed', { roomId: w.room.roomId, err: String(err) })
+      }
     })
   }
 
   const kick = (w: Watch) => {
-    const raw = readRawFrame(w.room.doc)
-    if (raw === null) return
+    const read = readRoomFrame(w.room.doc)
+    if (read.kind === 'empty') return
     const version = w.room.version
     const stateVector = Y.encodeStateVector(w.room.doc)
-    const checked = validateRoomFrame(raw)
-    if (!checked.ok) {
+    if (read.kind === 'invalid') {
       w.running?.handle.cancel()
-      send(w, 'solve:state', { version, state: 'unsettled', reason: 'invalid-frame', message: checked.message, field: checked.field })
+      send(w, 'solve:state', { version, state: 'unsettled', reason: 'invalid-frame', message: read.message, field: read.path })
       return
     }
     if (w.running) {
@@ -93,7 +99,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       }
       w.running.handle.cancel()
     }
-    void run(w, checked.frame, version, stateVector)
+    void run(w, read.frame, version, stateVector)
   }
 
   const solveOnce = async (w: Watch, frame: Frame, version: number, stateVector: Uint8Array, coarse: boolean): Promise<boolean> => {

@@ -13,8 +13,9 @@
  */
 import * as Y from 'yjs'
 import type { EdgeKind, Frame } from '../types'
+import { FRAME_KEY } from './read'
 
-export const FRAME_KEY = 'frame'
+export { FRAME_KEY, readRawFrame } from './read'
 
 export type YPoint = Y.Map<string | number>
 export type YLoop = Y.Map<string | Y.Array<YPoint>>
@@ -29,15 +30,18 @@ export function frameMap(doc: Y.Doc): Y.Map<unknown> {
   return doc.getMap(FRAME_KEY)
 }
 
-/** The loops array, created on first use. */
+/**
+ * The loops array of a well-shaped document, created on first use (tests, benchmarks, a new room).
+ * Throws when `loops` holds another type: code that may meet any document reads through read.ts.
+ */
 export function loopsOf(doc: Y.Doc): Y.Array<YLoop> {
   const root = frameMap(doc)
-  let loops = root.get('loops') as Y.Array<YLoop> | undefined
-  if (!loops) {
-    loops = new Y.Array<YLoop>()
-    root.set('loops', loops)
-  }
-  return loops
+  const loops = root.get('loops')
+  if (loops instanceof Y.Array) return loops as Y.Array<YLoop>
+  if (loops !== undefined) throw new Error('loops: not a list (read the document through shared/room-doc/read.ts)')
+  const fresh = new Y.Array<YLoop>()
+  root.set('loops', fresh)
+  return fresh
 }
 
 /** Builds the Y.Map of one frame point. */
@@ -86,37 +90,4 @@ export function writeFrame(doc: Y.Doc, frame: Readonly<Frame>, origin?: unknown)
     )
     root.set('loops', loops)
   }, origin)
-}
-
-/**
- * Reads the frame as plain data, without validation: every value is passed on as found so that the
- * frame validator (shared/frame) can name the bad field. Returns null for an empty document.
- */
-export function readRawFrame(doc: Y.Doc): unknown {
-  const root = frameMap(doc)
-  const loops = root.get('loops') as Y.Array<YLoop> | undefined
-  if (!loops || loops.length === 0) return null
-  const prestress = root.get('prestress') as Y.Map<unknown> | undefined
-  const mesh = root.get('mesh') as Y.Map<unknown> | undefined
-  return {
-    format: 'veilroom-frame',
-    version: 1,
-    units: 'm',
-    // rooms made before the warp direction existed have none: the parser's default (0) applies
-    prestress: { warp: prestress?.get('warp'), fill: prestress?.get('fill'), warpAngle: prestress?.get('warpAngle') },
-    mesh: { edgeLength: mesh?.get('edgeLength') },
-    loops: loops.toArray().map((loop) => {
-      const pts = loop.get('points')
-      const points = pts instanceof Y.Array ? pts.toArray() : []
-      return {
-        role: loop.get('role'),
-        points: points.map((p) => ({ id: p.get('id'), x: p.get('x'), y: p.get('y'), z: p.get('z') })),
-        edges: points.map((p) => {
-          const kind = p.get('edge')
-          const tension = p.get('tension')
-          return kind === 'cable' ? { kind, tension } : { kind }
-        }),
-      }
-    }),
-  }
 }

@@ -39,6 +39,7 @@ const emptyFrame = (): FrameView => ({
   loops: [],
   prestress: { warp: Number.NaN, fill: Number.NaN, warpAngle: Number.NaN },
   edgeLength: Number.NaN,
+  problem: null,
 })
 
 export const useWorkbenchStore = defineStore('workbench', () => {

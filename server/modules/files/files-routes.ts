@@ -62,7 +62,8 @@ export function filesRoutes(dataSource: DataSource, live: RoomLive, snapshots: S
       const roomId = roomIdOf(req.params.id)
       const name = await roomName(roomId)
       if (kind === 'frame.json') {
-        const { frame } = await live.getRoomFrame(roomId)
+        const { frame, invalid } = await live.getRoomFrame(roomId)
+        if (invalid) throw new AppError('invalid_frame', 409, `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`, invalid.path)
         if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame to download yet.')
         return sendDownload(res, kind, [name], renderDownload(kind, { title: name, frame }))
       }

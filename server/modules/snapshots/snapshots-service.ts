@@ -47,7 +47,8 @@ export function snapshotsService(dataSource: DataSource, live: Pick<RoomLive, 'g
 
   /** The room's frame with the settled surface solved from it; 409 while there is none or it lags an edit. */
   async function current(roomId: string): Promise<{ frame: Frame; surface: VersionedSurface }> {
-    const { frame, version } = await live.getRoomFrame(roomId)
+    const { frame, version, invalid } = await live.getRoomFrame(roomId)
+    if (invalid) throw new AppError('invalid_frame', 409, `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`, invalid.path)
     if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame yet.')
     const surface = await live.getLatestSurface(roomId)
     if (!surface || !surface.solver.converged) {

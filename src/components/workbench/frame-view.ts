@@ -1,12 +1,14 @@
 /**
  * The room document read back as plain data for the workbench: loops and points keep their ids
  * (edits address them by id) and every value is passed on as found, a non-number becoming NaN, so
- * the table can show a bad value instead of hiding it. Nothing here validates; the server's frame
- * validator names bad fields through the solver status.
+ * the table can show a bad value instead of hiding it. Values are not validated here (the server's
+ * frame validator names bad fields through the solver status); the document's shape is, through
+ * shared/room-doc/read.ts: a misplaced type is skipped and reported as `problem`, never thrown.
  */
 import * as Y from 'yjs'
 import type { EdgeKind } from '../../../shared/types'
-import { frameMap, type YLoop } from '../../../shared/room-doc/schema'
+import { mapsIn, shapeProblem, type ShapeProblem } from '../../../shared/room-doc/read'
+import { frameMap } from '../../../shared/room-doc/schema'
 
 export interface ViewPoint {
   id: string
@@ -32,6 +34,8 @@ export interface FrameView {
   prestress: { warp: number; fill: number; warpAngle: number }
   /** Target element size, m. */
   edgeLength: number
+  /** The first part of the document that is not of the expected type (its parts are left out above). */
+  problem: ShapeProblem | null
 }
 
 const num = (v: unknown): number => (typeof v === 'number' ? v : Number.NaN)
@@ -40,11 +44,14 @@ const str = (v: unknown): string => (typeof v === 'string' ? v : '')
 
 /** Reads the frame of a room document; an empty document gives no loops. */
 export function readFrameView(doc: Y.Doc): FrameView {
+  const problem = shapeProblem(doc)
+  if (problem?.path === 'frame') return { loops: [], prestress: { warp: Number.NaN, fill: Number.NaN, warpAngle: Number.NaN }, edgeLength: Number.NaN, problem }
   const root = frameMap(doc)
   const prestress = root.get('prestress')
   const mesh = root.get('mesh')
   const loops = root.get('loops')
   return {
+    problem,
     prestress: {
       warp: prestress instanceof Y.Map ? num(prestress.get('warp')) : Number.NaN,
       fill: prestress instanceof Y.Map ? num(prestress.get('fill')) : Number.NaN,
@@ -52,13 +59,12 @@ export function readFrameView(doc: Y.Doc): FrameView {
       warpAngle: prestress instanceof Y.Map ? angle(prestress.get('warpAngle')) : Number.NaN,
     },
     edgeLength: mesh instanceof Y.Map ? num(mesh.get('edgeLength')) : Number.NaN,
-    loops: loops instanceof Y.Array ? (loops.toArray() as YLoop[]).map(readLoop) : [],
+    loops: mapsIn(loops).map(readLoop),
   }
 }
 
-function readLoop(loop: YLoop): ViewLoop {
-  const pts = loop.get('points')
-  const points = pts instanceof Y.Array ? (pts.toArray() as Y.Map<unknown>[]) : []
+function readLoop(loop: Y.Map<unknown>): ViewLoop {
+  const points = mapsIn(loop.get('points'))
   return {
     id: str(loop.get('id')),
     role: loop.get('role') === 'hole' ? 'hole' : 'outer',
