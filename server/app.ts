@@ -12,7 +12,7 @@ import { authService } from './modules/auth/auth-service.js'
 import { roomsRoutes } from './modules/rooms/rooms-routes.js'
 import { roomsService } from './modules/rooms/rooms-service.js'
 import { teamworkRoutes } from './modules/invites/teamwork-routes.js'
-import { lateRoomLive, type LateRoomLive } from './modules/snapshots/room-live.js'
+import { offlineLiveRoom, type LiveRoomPort } from './live-room-port/index.js'
 import { createSession } from './session.js'
 
 export interface AppDeps {
@@ -21,6 +21,30 @@ export interface AppDeps {
   dataSource: DataSource
   /** Folder with the Vite build; served with SPA fallback when it exists. */
   distDir?: string
+  /** Session and passport, built first so the realtime layer can use them too (createWebSession). */
+  web?: WebSession
+  /** The live room the routes use; without one, reads answer 503 'live_unavailable'. */
+  live?: LiveRoomPort
+  /** The express app to configure (main.ts hands in the one its http server already serves). */
+  app?: Express
+}
+
+/** express-session, passport and the auth service: what both the routes and the sockets need. */
+export interface WebSession {
+  sessionMiddleware: RequestHandler
+  /** passport's session middleware (sets req.user from the session). */
+  passportSession: RequestHandler
+  passport: ReturnType<typeof createPassport>
+  auth: ReturnType<typeof authService>
+  close: () => Promise<void>
+}
+
+/** Builds the session store, the auth service and passport once, for the app and the sockets. */
+export function createWebSession(config: Config, dataSource: DataSource): WebSession {
+  const session = createSession(config, dataSource)
+  const auth = authService(dataSource, config.BCRYPT_COST)
+  const passport = createPassport(auth)
+  return { sessionMiddleware: session.middleware, passportSession: passport.session() as RequestHandler, passport, auth, close: session.close }
 }
 
 export interface AppBundle {
@@ -31,14 +55,18 @@ export interface AppBundle {
   passportSession: RequestHandler
   /** Mount extra /api routers here before the 404 and error handlers (e.g. snapshots, pins). */
   api: express.Router
-  /** The team-work routes' view of the live room: attach the realtime accessors once they exist. */
-  live: LateRoomLive
   close: () => Promise<void>
 }
 
 /** Builds the Express app without listening, so tests and main.ts can attach it to any server. */
-export function createApp({ config, dataSource, distDir = resolve(import.meta.dirname, '../dist') }: AppDeps): AppBundle {
-  const app = express()
+export function createApp({
+  config,
+  dataSource,
+  distDir = resolve(import.meta.dirname, '../dist'),
+  web = createWebSession(config, dataSource),
+  live = offlineLiveRoom(),
+  app = express(),
+}: AppDeps): AppBundle {
   app.disable('x-powered-by')
   // Behind a TLS-terminating proxy on this machine, so secure cookies and req.ip work.
   if (config.PUBLIC_URL.startsWith('https:')) app.set('trust proxy', 'loopback')
@@ -63,10 +91,7 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
     }),
   )
 
-  const session = createSession(config, dataSource)
-  const auth = authService(dataSource, config.BCRYPT_COST)
-  const passport = createPassport(auth)
-  const passportSession = passport.session() as RequestHandler
+  const { auth, passport, passportSession } = web
   const { csrfSynchronisedProtection, generateToken } = csrfSync({
     getTokenFromRequest: (req) => req.get('x-csrf-token'),
   })
@@ -82,9 +107,8 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
       res.status(503).json({ ok: false, db: 'down' })
     }
   })
-  api.use(session.middleware, passport.initialize(), passportSession)
+  api.use(web.sessionMiddleware, passport.initialize(), passportSession)
   api.use(csrfSynchronisedProtection)
-  const live = lateRoomLive()
   api.use(
     '/auth',
     authRoutes({ auth, passport, csrfToken: (req) => generateToken(req), onSignOut: (userId) => live.closeRoomSockets(undefined, userId) }),
@@ -100,5 +124,5 @@ export function createApp({ config, dataSource, distDir = resolve(import.meta.di
   }
   app.use(errorHandler)
 
-  return { app, sessionMiddleware: session.middleware, passportSession, api, live, close: session.close }
+  return { app, sessionMiddleware: web.sessionMiddleware, passportSession, api, close: web.close }
 }

@@ -2,13 +2,15 @@ import 'reflect-metadata'
 import { createServer, type Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import type { DataSource } from 'typeorm'
-import { createApp, type AppBundle } from './app.js'
+import express from 'express'
+import { createApp, createWebSession, type AppBundle } from './app.js'
 import { loadConfig, type Config } from './config.js'
 import { createDataSource } from './db/data-source.js'
 import { seedDemo } from './db/seed.js'
 import { logger, setLogLevel } from './lib/logger.js'
 import { installProcessGuards } from './lib/process-guards.js'
-import { attachRealtime, type Realtime } from './realtime/index.js'
+import type { LiveRoomPort } from './live-room-port/index.js'
+import { attachRealtime, type Realtime, type RealtimeDeps } from './realtime/index.js'
 
 export interface StartOptions {
   /** 0 picks a free port (tests). Defaults to config.PORT. */
@@ -16,6 +18,10 @@ export interface StartOptions {
   config?: Config
   /** Insert the demo practice, users and rooms (idempotent). */
   seed?: boolean
+  /** Realtime tuning (tests and benchmarks). */
+  tuning?: RealtimeDeps['tuning']
+  /** What the routes see of the live room; tests wrap the real one to record or stand in. */
+  live?: (realtime: Realtime) => LiveRoomPort
 }
 
 export interface Running extends AppBundle {
@@ -45,10 +51,13 @@ export async function start(options: StartOptions = {}): Promise<Running> {
   if (ran.length) logger.info('migrations applied', { names: ran.map((m) => m.name) })
   const demoRooms = options.seed ? await seedDemo(dataSource, config.BCRYPT_COST) : null
 
-  const bundle = createApp({ config, dataSource })
-  const server = createServer(bundle.app)
-  const realtime = attachRealtime(server, { ...bundle, dataSource, config })
-  bundle.live.attach(realtime)
+  // The live room first, then the routes that use it: socket.io wraps the server's request
+  // listener when it attaches, so the express app is that listener from the start.
+  const app = express()
+  const server = createServer(app)
+  const web = createWebSession(config, dataSource)
+  const realtime = attachRealtime(server, { ...web, dataSource, config, tuning: options.tuning })
+  const bundle = createApp({ config, dataSource, web, app, live: options.live ? options.live(realtime) : realtime })
   if (demoRooms) {
     await realtime.ensureRoomFrame(demoRooms.courtyard, 'tent')
     await realtime.ensureRoomFrame(demoRooms['shade-sail'], 'sail')

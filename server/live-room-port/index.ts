@@ -7,6 +7,7 @@
 import type { StarterKey } from '../../shared/room-doc/starters.js'
 import type { ServerEvent, ServerPayload, VersionedSurface } from '../../shared/protocol/index.js'
 import type { Frame } from '../../shared/types.js'
+import { AppError } from '../lib/app-error.js'
 
 /** Sends a typed event to everyone who joined the room. */
 export type RoomEmit = <E extends ServerEvent>(roomId: string, event: E, payload: ServerPayload<E>) => void
@@ -24,4 +25,21 @@ export interface LiveRoomPort {
   closeRoomSockets(roomId?: string, userId?: string): void
   /** Gives a new room's empty document a starting frame; false when it already had one. */
   ensureRoomFrame(roomId: string, starter: StarterKey): Promise<boolean>
+}
+
+/**
+ * The port of an app with no live room (createApp alone, as in app tests): reading frames and
+ * surfaces answers 503 'live_unavailable'; broadcasts and socket closing do nothing (nobody can be
+ * connected), and a new room keeps the blank frame an empty document gets on its first load.
+ */
+export function offlineLiveRoom(): LiveRoomPort {
+  const unavailable = () =>
+    new AppError('live_unavailable', 503, 'The live room service is not running, so the frame and surface cannot be read.')
+  return {
+    getRoomFrame: () => Promise.reject(unavailable()),
+    getLatestSurface: () => Promise.reject(unavailable()),
+    emitToRoom: () => undefined,
+    closeRoomSockets: () => undefined,
+    ensureRoomFrame: () => Promise.resolve(false),
+  }
 }

@@ -14,7 +14,7 @@ import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { createSolveLoop, type SolveLoop } from './solve-loop.js'
 import type { LiveRoomPort } from '../live-room-port/index.js'
 import { SolvePool } from './solve-pool.js'
-import { attachSurfaceStream, type SurfaceStream } from './surface-stream.js'
+import { attachSurfaceStream, createStreamServer, roomEmitter } from './surface-stream.js'
 import { attachSyncEndpoint } from './sync-endpoint.js'
 
 export interface RealtimeDeps {
@@ -67,17 +67,10 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
   // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
   // server, not for each of the many short-lived test servers, which start workers on first use.
   if (config.NODE_ENV !== 'test') pool.warmUp()
-  // The loop emits through the stream, and the stream asks the loop for the latest surface.
-  const ref: { stream?: SurfaceStream } = {}
-  const loop = createSolveLoop({
-    rooms,
-    pool,
-    emit: (roomId, event, payload) => ref.stream?.emit(roomId, event, payload),
-    staleMs: tuning.staleMs,
-    coarseAbove: tuning.coarseAbove,
-  })
-  const stream = attachSurfaceStream(httpServer, { rooms, access, origins, latest: loop.latest })
-  ref.stream = stream
+  // socket.io first, then the loop that emits through it, then the room handlers that read the loop.
+  const io = createStreamServer(httpServer, { access, origins })
+  const loop = createSolveLoop({ rooms, pool, emit: roomEmitter(io), staleMs: tuning.staleMs, coarseAbove: tuning.coarseAbove })
+  const stream = attachSurfaceStream(io, { rooms, access, latest: loop.latest })
   const sync = attachSyncEndpoint(httpServer, { rooms, access, origins })
 
   return {

@@ -19,13 +19,12 @@ import { roomRoleOf, sessionUser, type AccessDeps } from './access.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
 import type { LatestEvent } from './solve-loop.js'
 
-type StreamServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>
+export type StreamServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>
 type StreamSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>
 
 export interface SurfaceStreamOptions {
   rooms: RoomDocs
   access: AccessDeps
-  origins: () => Set<string>
   /** The last surface (and solve state) of a room, sent to a client that joins. */
   latest: (roomId: string) => LatestEvent[]
 }
@@ -41,7 +40,11 @@ export interface SurfaceStream {
 
 export const channel = (roomId: string): string => `room:${roomId}`
 
-export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamOptions): SurfaceStream {
+/**
+ * The socket.io server on the app's http server, admitting signed-in users only. Made before the
+ * solve loop (which emits through it) and before its room handlers (which read the loop's latest).
+ */
+export function createStreamServer(httpServer: HttpServer, opts: { access: AccessDeps; origins: () => Set<string> }): StreamServer {
   const io: StreamServer = new Server(httpServer, {
     // The /sync upgrade belongs to the CRDT endpoint; by default socket.io would destroy it after 1 s.
     destroyUpgrade: false,
@@ -64,7 +67,18 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
       (err: unknown) => next(err instanceof Error ? err : new Error(String(err))),
     )
   })
+  return io
+}
 
+/** Sends a typed event to everyone who joined the room. */
+export const roomEmitter =
+  (io: StreamServer): RoomEmit =>
+  (roomId, event, payload) => {
+    io.to(channel(roomId)).emit(event, ...([payload] as Parameters<ServerToClientEvents[typeof event]>))
+  }
+
+/** The room handlers: `room:join` (membership checked, room held, latest sent) and `room:leave`. */
+export function attachSurfaceStream(io: StreamServer, opts: SurfaceStreamOptions): SurfaceStream {
   io.on('connection', (socket: StreamSocket) => {
     const held = new Map<string, LiveRoom>()
     socket.on('error', (err) => logger.debug('realtime: socket.io error', { err: String(err) }))
@@ -115,9 +129,7 @@ export function attachSurfaceStream(httpServer: HttpServer, opts: SurfaceStreamO
 
   return {
     io,
-    emit: (roomId, event, payload) => {
-      io.to(channel(roomId)).emit(event, ...([payload] as Parameters<ServerToClientEvents[typeof event]>))
-    },
+    emit: roomEmitter(io),
     closeWhere: (roomId, userId) => {
       for (const socket of io.sockets.sockets.values()) {
         const inRoom = roomId === undefined || socket.rooms.has(channel(roomId))

@@ -1,18 +1,18 @@
 import { randomUUID } from 'node:crypto'
 import { loadConfig } from '../../server/config.js'
-import { start, type Running } from '../../server/main.js'
+import { start, type Running, type StartOptions } from '../../server/main.js'
 
 /**
  * Starts the real app on port 0 against the per-run test database that scripts/test.mjs creates
  * (DB_PORT 3308, DB_NAME veilroom_test_<time>). Refuses any other database, so a test can never
  * write into development data.
  */
-export async function startTestServer(): Promise<Running> {
+export async function startTestServer(options: Pick<StartOptions, 'tuning' | 'live'> = {}): Promise<Running> {
   const config = loadConfig({ ...process.env, NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' })
   if (!config.DB_NAME.startsWith('veilroom_test_')) {
     throw new Error(`DB_NAME=${config.DB_NAME} is not a test database; run tests with \`npm test\` (see DEVELOPERS.md)`)
   }
-  return start({ port: 0, config })
+  return start({ ...options, port: 0, config })
 }
 
 /** An address nobody else in this run uses. */

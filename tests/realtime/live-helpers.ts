@@ -13,7 +13,7 @@ import { WebsocketProvider } from 'y-websocket'
 import * as Y from 'yjs'
 import { MembershipEntity, RoomEntity, UserEntity, type RoomRole } from '../../server/db/entities/index.js'
 import type { Running } from '../../server/main.js'
-import { attachRealtime, type Realtime, type RealtimeDeps } from '../../server/realtime/index.js'
+import type { Realtime, RealtimeDeps } from '../../server/realtime/index.js'
 import { startTestServer } from '../helpers/test-server.js'
 
 export interface Live {
@@ -23,29 +23,10 @@ export interface Live {
   stop: () => Promise<void>
 }
 
-/** Starts the app with the live room attached (by start() itself once wired, else here). */
+/** Starts the app (its live room included) with the given realtime tuning. */
 export async function startLive(tuning: RealtimeDeps['tuning'] = {}): Promise<Live> {
-  const running = await startTestServer()
-  const config = running.config
-  const wired = (running as Running & { realtime?: Realtime }).realtime
-  const realtime =
-    wired ??
-    attachRealtime(running.server, {
-      sessionMiddleware: running.sessionMiddleware,
-      passportSession: running.passportSession,
-      dataSource: running.dataSource,
-      config,
-      tuning,
-    })
-  return {
-    running,
-    realtime,
-    url: running.url,
-    stop: async () => {
-      if (!wired) await realtime.close()
-      await running.stop()
-    },
-  }
+  const running = await startTestServer({ tuning })
+  return { running, realtime: running.realtime, url: running.url, stop: () => running.stop() }
 }
 
 const PASSWORD = 'live-room-test-password'

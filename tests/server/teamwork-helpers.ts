@@ -6,7 +6,7 @@ import { MembershipEntity, type RoomRole } from '../../server/db/entities/index.
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp.js'
 import { dbMailbox } from '../../server/mail/mailbox.js'
 import type { Running } from '../../server/main.js'
-import type { RoomLive } from '../../server/modules/snapshots/room-live.js'
+import type { LiveRoomPort as RoomLive } from '../../server/live-room-port/index.js'
 import type { VersionedSurface } from '../../shared/protocol/index.js'
 import type { Frame, SurfaceResult } from '../../shared/types.js'
 import { SESSION_COOKIE } from '../../server/session.js'
@@ -58,9 +58,8 @@ export async function startTeamworkServer(inner?: Partial<RoomLive>): Promise<Te
   // createApp reads SMTP_* when it builds the team-work routes; each test file runs in its own process.
   process.env.SMTP_HOST = '127.0.0.1'
   process.env.SMTP_PORT = String(smtp.port)
-  const server = await startTestServer()
   const live = recordingLive(inner)
-  server.live.attach(live)
+  const server = await startTestServer({ live: () => live })
   return {
     server,
     url: server.url,

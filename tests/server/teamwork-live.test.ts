@@ -32,7 +32,6 @@ function joined(who: keyof typeof cookies): Promise<Socket> {
 
 beforeAll(async () => {
   live = await startLive()
-  live.running.live.attach(live.realtime)
   const ds = live.running.dataSource
   const users = { owner: await makeUser(ds, 'Owner'), editor: await makeUser(ds, 'Editor'), reviewer: await makeUser(ds, 'Reviewer'), viewer: await makeUser(ds, 'Viewer') }
   roomId = await makeRoom(ds, (Object.keys(users) as (keyof typeof users)[]).map((role) => ({ userId: users[role].id, role })))

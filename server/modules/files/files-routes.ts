@@ -5,7 +5,7 @@ import { AppError } from '../../lib/app-error.js'
 import { pinView } from '../pins/pins-service.js'
 import { pinsRepository } from '../pins/pins-repository.js'
 import { requireRoomAction } from '../rooms/room-access.js'
-import type { RoomLive } from '../snapshots/room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { roomIdOf, snapshotId } from '../snapshots/snapshots-routes.js'
 import { surfaceResult, type SnapshotsService } from '../snapshots/snapshots-service.js'
 import { renderDownload, sendDownload, type DownloadKind } from './downloads.js'
@@ -16,7 +16,7 @@ import { singleUpload } from './upload.js'
 const noFile = (field: string) => new AppError('invalid_upload', 400, `Attach the file in the form field "${field}".`, field)
 
 /** Frame import, the underlay image, and downloads of the room's and snapshots' frame, surface and figures. */
-export function filesRoutes(dataSource: DataSource, live: RoomLive, snapshots: SnapshotsService): Router {
+export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshots: SnapshotsService): Router {
   const router = Router()
   const viewer = requireRoomAction(dataSource, 'read')
   const editor = requireRoomAction(dataSource, 'editFrame')

@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm'
 import type { RoomRole } from '../../db/entities/index.js'
 import { AppError, forbidden, notFound } from '../../lib/app-error.js'
-import type { RoomLive } from '../snapshots/room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { locked } from './invites-repository.js'
 
 const memberNotFound = () => notFound('member_not_found', 'This user is not a member of the room.')
@@ -9,7 +9,7 @@ const lastOwner = () =>
   new AppError('last_owner', 409, 'A room needs at least one owner: make someone else owner first.')
 
 /** Role changes and removals; the owner rows are locked so the last owner can never disappear. */
-export function membersService(dataSource: DataSource, live: Pick<RoomLive, 'closeRoomSockets'>) {
+export function membersService(dataSource: DataSource, live: Pick<LiveRoomPort, 'closeRoomSockets'>) {
   return {
     /** Owner only (checked by the route). */
     async changeRole(roomId: string, userId: string, role: RoomRole): Promise<{ userId: string; role: RoomRole }> {

@@ -7,7 +7,7 @@ import { createMailer } from '../../mail/mailer.js'
 import { filesRoutes } from '../files/files-routes.js'
 import { pinsRoutes } from '../pins/pins-routes.js'
 import { pinsService } from '../pins/pins-service.js'
-import type { RoomLive } from '../snapshots/room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { snapshotsRoutes } from '../snapshots/snapshots-routes.js'
 import { snapshotsService } from '../snapshots/snapshots-service.js'
 import { invitesRoutes } from './invites-routes.js'
@@ -18,7 +18,7 @@ export interface TeamworkDeps {
   config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV'>
   dataSource: DataSource
   /** The live room (server/realtime): frames, surfaces, room broadcasts, closing sockets. */
-  live: RoomLive
+  live: LiveRoomPort
   /** Defaults to SMTP_* from the environment. */
   mail?: MailConfig
 }

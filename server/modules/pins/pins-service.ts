@@ -3,7 +3,7 @@ import type { DataSource } from 'typeorm'
 import type { RoomRole, User } from '../../db/entities/index.js'
 import { forbidden, notFound } from '../../lib/app-error.js'
 import { can } from '../../../shared/protocol/index.js'
-import type { RoomLive } from '../snapshots/room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { pinsRepository, type PinRow } from './pins-repository.js'
 import type { CreatePinBody, ListPinsQuery, PatchPinBody } from './pins-schema.js'
 
@@ -22,7 +22,7 @@ export type PinView = ReturnType<typeof pinView>
 const pinNotFound = () => notFound('pin_not_found', 'No such pin in this room (it may have been deleted).')
 
 /** Review pins. Route guards ensure reviewer or higher for every write; the rules below add authorship. */
-export function pinsService(dataSource: DataSource, live: Pick<RoomLive, 'emitToRoom'>) {
+export function pinsService(dataSource: DataSource, live: Pick<LiveRoomPort, 'emitToRoom'>) {
   const repo = pinsRepository(dataSource)
 
   async function load(roomId: string, pinId: string): Promise<PinRow> {

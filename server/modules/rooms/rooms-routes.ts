@@ -1,12 +1,12 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
-import type { RoomLive } from '../snapshots/room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import { requireRoomAction, requireUser } from './room-access.js'
 import { createRoomBody, updateRoomBody } from './rooms-schema.js'
 import type { RoomsService } from './rooms-service.js'
 
 /** /api/rooms: thin handlers; the service holds the rules, requireRoomAction the access. */
-export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<RoomLive, 'ensureRoomFrame'>): Router {
+export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<LiveRoomPort, 'ensureRoomFrame'>): Router {
   const router = Router()
   const viewer = requireRoomAction(dataSource, 'read')
 

@@ -4,7 +4,7 @@ import type { Figures, Frame, SurfaceResult } from '../../../shared/types.js'
 import type { Snapshot, User } from '../../db/entities/index.js'
 import { AppError, notFound } from '../../lib/app-error.js'
 import type { VersionedSurface } from '../../../shared/protocol/index.js'
-import type { RoomLive } from './room-live.js'
+import type { LiveRoomPort } from '../../live-room-port/index.js'
 import type { CreateSnapshotBody } from './snapshots-schema.js'
 import { snapshotsRepository } from './snapshots-repository.js'
 import { decodeSurface, encodeSurface, type StoredSurface } from './surface-codec.js'
@@ -36,7 +36,7 @@ export function surfaceResult(s: StoredSurface, figures: Figures): SurfaceResult
   return { vertices, triangles, figures, solver: s.solver }
 }
 
-export function snapshotsService(dataSource: DataSource, live: Pick<RoomLive, 'getRoomFrame' | 'getLatestSurface'>) {
+export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort, 'getRoomFrame' | 'getLatestSurface'>) {
   const repo = snapshotsRepository(dataSource)
 
   async function load(roomId: string, id: string, withSurface = false): Promise<Snapshot> {
