@@ -10,7 +10,8 @@ import { frameNeedsParametricMesh, frameNeedsSpatialSolve, validateFrame } from 
 import { meshFrame, meshParametric, remapMesh } from './mesh'
 import { frameConstraints, frameStructureKey, isotropicPrestress } from './solver/frame-problem'
 import { solveHeightField } from './solver/height-field'
-import { solveSpatial, type SpatialSetup } from './solver/spatial'
+import type { SpatialSetup } from './solver/spatial'
+import { solveSpatialPath } from './solver/spatial-path'
 import type { SpdSystem } from './solver/spd-system'
 import type { Frame, MembraneMesh, SolverReport, SurfaceResult } from './types'
 
@@ -145,7 +146,9 @@ function solveOnMesh(
   continueSteep: boolean,
 ): { vertices: Float64Array; report: SolverReport; steep: boolean } {
   const constraints = frameConstraints(mesh, frame)
-  const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame)
+  // warp ≠ fill is solved by the spatial path only (the height-field energy is isotropic)
+  const anisotropic = frame.prestress.warp !== frame.prestress.fill
+  const spatialPath = cache.parametric || frameNeedsSpatialSolve(frame) || anisotropic
   const start = Float64Array.from(mesh.vertices)
   const solved = previous?.solved
   if (previous && solved) {
@@ -160,14 +163,16 @@ function solveOnMesh(
       else start[3 * v + 2] = solved[3 * v + 2]!
     }
   }
-  const spatial = (from: Float64Array, earlier?: SolverReport) => {
+  const spatial = (from: Float64Array, earlier?: SolverReport, cold = false) => {
     const problem = {
       vertices: from,
       triangles: mesh.triangles,
       ...constraints,
       prestress: isotropicPrestress(frame),
     }
-    const result = solveSpatial(problem, control, cache.spatial)
+    // fibres are laid on the mesh as meshed (the plan for plan meshes): the same for warm and cold
+    const plan = !cache.parametric
+    const result = solveSpatialPath(problem, frame.prestress, mesh.vertices, plan, control, cache.spatial, cold && plan)
     cache.spatial = result.setup
     const report = earlier
       ? {
@@ -179,7 +184,7 @@ function solveOnMesh(
       : result.report
     return { vertices: result.vertices, report, steep: false }
   }
-  if (spatialPath) return spatial(start)
+  if (spatialPath) return spatial(start, undefined, !solved)
   const previousHeights = solved && Float64Array.from({ length: solved.length / 3 }, (_, v) => solved[3 * v + 2]!)
   const problem = {
     vertices: start,

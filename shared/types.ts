@@ -54,6 +54,11 @@ export interface SolverReport {
   /** Reason when not converged: 'diverged', 'no-equilibrium', 'cancelled', 'iteration-limit', … */
   reason?: string
   ms: number
+  /**
+   * Warp ≠ fill on the spatial path: how far the settled stresses are from the prescribed warp and
+   * fill, % of the larger (max over faces, area-weighted RMS). 0 when warp = fill.
+   */
+  stressDeviation?: { max: number; rms: number }
 }
 
 export interface Histogram {

@@ -94,6 +94,7 @@ export const solverReportSchema = z.object({
   converged: z.boolean(),
   reason: solverReasonSchema.optional(),
   ms: num,
+  stressDeviation: z.object({ max: num, rms: num }).optional(),
 }) satisfies z.ZodType<SolverReport>
 
 /** Every triangle index names a vertex; lengths are whole #×3. */

@@ -75,7 +75,7 @@ describe('form-finding engine', () => {
     // with its coarser rings: the tolerance 0.05 m² is ~1 % (the O(h²) rate itself is checked in
     // solver-spatial.test.ts on a structured mesh).
     const result = solveFrame(rings(1, 1))
-    expect(result.solver.method).toBe('surface-stress-density')
+    expect(result.solver.method).toBe('newton-spatial')
     expect(result.solver.converged).toBe(true)
     expect(Math.abs(result.figures.area - 5.99179698)).toBeLessThan(0.05)
   })
@@ -122,7 +122,7 @@ describe('form-finding engine', () => {
     }
     const { mesh, report } = createSurfaceSolver().solve(frame)
     expect(report.converged).toBe(true)
-    expect(report.method).toContain('surface-stress-density')
+    expect(report.method).toContain('newton-spatial')
     let neck = Infinity
     for (let v = 0; v < mesh.vertices.length / 3; v++) {
       if (mesh.vertexLoops[v]! < 0) neck = Math.min(neck, Math.hypot(mesh.vertices[3 * v]!, mesh.vertices[3 * v + 1]!))
