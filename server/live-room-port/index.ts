@@ -5,7 +5,7 @@
  * protocol's (shared/protocol/events.ts).
  */
 import type { StarterKey } from '../../shared/room-doc/starters.js'
-import type { ServerEvent, ServerPayload, VersionedSurface } from '../../shared/protocol/index.js'
+import type { ServerEvent, ServerPayload, SettledSurface } from '../../shared/protocol/index.js'
 import type { Frame } from '../../shared/types.js'
 import { AppError } from '../lib/app-error.js'
 
@@ -19,7 +19,7 @@ export interface LiveRoomPort {
    */
   getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number; invalid?: { path: string; message: string } }>
   /** The room's last settled fine surface (solved on demand when the room was not loaded). */
-  getLatestSurface(roomId: string): Promise<VersionedSurface | null>
+  getLatestSurface(roomId: string): Promise<SettledSurface | null>
   emitToRoom: RoomEmit
   /** Closes the live sockets (sync and surface stream) of a room and/or a user. */
   closeRoomSockets(roomId?: string, userId?: string): void

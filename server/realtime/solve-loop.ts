@@ -6,8 +6,17 @@
  * older one is cancelled. A large frame without warm state gets a coarse preview first.
  */
 import * as Y from 'yjs'
+import { noRoomPattern, type RoomCuts } from '../../shared/pattern/index.js'
 import { readRoomFrame } from '../../shared/room-doc/read.js'
-import { solverReasonSchema, type ServerPayload, type SolveStateEvent, type SurfaceEvent, type VersionedSurface } from '../../shared/protocol/index.js'
+import { readRoomCuts } from '../../shared/room-doc/seams.js'
+import {
+  solverReasonSchema,
+  type PatternEvent,
+  type ServerPayload,
+  type SettledSurface,
+  type SolveStateEvent,
+  type SurfaceEvent,
+} from '../../shared/protocol/index.js'
 import { edgeLengthFor } from '../../shared/mesh/lattice.js'
 import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
@@ -19,7 +28,7 @@ import type { RoomEmit } from '../live-room-port/index.js'
 /** Vertex count a coarse preview aims at. */
 const COARSE_VERTICES = 2000
 
-type LoopEvent = 'surface' | 'solve:state' | 'solve:progress'
+type LoopEvent = 'surface' | 'solve:state' | 'solve:progress' | 'pattern'
 
 interface Watch {
   room: LiveRoom
@@ -30,8 +39,12 @@ interface Watch {
   warmKey: string | null
   surface?: SurfaceEvent
   state?: SolveStateEvent
-  /** The last fine surface that converged. */
-  settled?: VersionedSurface
+  /** The last 'pattern' message (flat strips of the last settled surface, or why there are none). */
+  pattern?: PatternEvent
+  /** The room's seams as read at the last change (undefined: none, or refused). */
+  cuts?: RoomCuts | undefined
+  /** The last fine surface that converged, with its pattern when the room has seams. */
+  settled?: SettledSurface
   /** Called after each surface or state sent (getLatestSurface waits on them). */
   waiters: Set<() => void>
   onUpdate: () => void
@@ -44,14 +57,23 @@ export interface SolveLoop {
    * The last settled surface of a loaded room, after waiting (up to `ms`) for the outcome of the
    * solve of its current version; null when nothing ever settled.
    */
-  settledSurface: (roomId: string, ms: number) => Promise<VersionedSurface | null>
+  settledSurface: (roomId: string, ms: number) => Promise<SettledSurface | null>
   close: () => void
 }
 
 /** An event as the loop keeps it for a client that joins late. */
-export type LatestEvent = { event: 'surface'; payload: SurfaceEvent } | { event: 'solve:state'; payload: SolveStateEvent }
+export type LatestEvent =
+  | { event: 'surface'; payload: SurfaceEvent }
+  | { event: 'solve:state'; payload: SolveStateEvent }
+  | { event: 'pattern'; payload: PatternEvent }
 
-export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: RoomEmit; staleMs?: number; coarseAbove?: number }): SolveLoop {
+export function createSolveLoop(opts: {
+  rooms: RoomDocs
+  pool: SolvePool
+  emit: RoomEmit
+  staleMs?: number
+  coarseAbove?: number
+}): SolveLoop {
   const { rooms, pool, emit } = opts
   const staleMs = opts.staleMs ?? 250
   const coarseAbove = opts.coarseAbove ?? 3 * COARSE_VERTICES
@@ -61,6 +83,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     const full = { roomId: w.room.roomId, ...payload } as ServerPayload<E>
     if (event === 'surface') w.surface = full as SurfaceEvent
     if (event === 'solve:state') w.state = full as SolveStateEvent
+    if (event === 'pattern') w.pattern = full as PatternEvent
     emit(w.room.roomId, event, full)
     if (event !== 'solve:progress') for (const wake of w.waiters) wake()
   }
@@ -87,9 +110,16 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     if (read.kind === 'empty') return
     const version = w.room.version
     const stateVector = Y.encodeStateVector(w.room.doc)
+    readCuts(w, read.kind === 'frame' ? read.frame : null, version)
     if (read.kind === 'invalid') {
       w.running?.handle.cancel()
-      send(w, 'solve:state', { version, state: 'unsettled', reason: 'invalid-frame', message: read.message, field: read.path })
+      send(w, 'solve:state', {
+        version,
+        state: 'unsettled',
+        reason: 'invalid-frame',
+        message: read.message,
+        field: read.path,
+      })
       return
     }
     if (w.running) {
@@ -102,9 +132,30 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
     void run(w, read.frame, version, stateVector)
   }
 
-  const solveOnce = async (w: Watch, frame: Frame, version: number, stateVector: Uint8Array, coarse: boolean): Promise<boolean> => {
+  /** Reads the room's seams for the next solve; a refused or emptied set is told to the room now. */
+  const readCuts = (w: Watch, frame: Frame | null, version: number) => {
+    const read = readRoomCuts(w.room.doc, frame?.prestress.warpAngle ?? 0)
+    w.cuts = read?.ok ? read.cuts : undefined
+    const last = w.pattern
+    if (read && !read.ok)
+      send(w, 'pattern', {
+        version,
+        ...noRoomPattern({ code: 'invalid-seams', field: read.field, message: read.message }),
+      })
+    else if (!read && last && (last.result !== null || last.error !== null))
+      send(w, 'pattern', { version, ...noRoomPattern(null) })
+  }
+
+  const solveOnce = async (
+    w: Watch,
+    frame: Frame,
+    version: number,
+    stateVector: Uint8Array,
+    coarse: boolean,
+  ): Promise<boolean> => {
     const handle = pool.solve(w.room.roomId, frame, {
       coarse,
+      cuts: w.cuts,
       onProgress: (iteration, residual) => send(w, 'solve:progress', { version, iteration, residual }),
     })
     w.running = { handle, startedAt: performance.now() }
@@ -116,11 +167,13 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       send(w, 'solve:state', { version, state: 'unsettled', reason: 'solver-error', message: outcome.message })
       return false
     }
-    const { kind: _k, worker: _w, ...surface } = outcome
+    const { kind: _k, worker: _w, pattern, ...surface } = outcome
     send(w, 'surface', { version, stateVector, coarse, ...surface })
+    if (pattern) send(w, 'pattern', { version, ...pattern })
     if (!coarse) {
       w.warmKey = frameStructureKey(frame)
-      if (surface.solver.converged) w.settled = { version, ...surface }
+      if (surface.solver.converged)
+        w.settled = { version, ...surface, ...(pattern?.result ? { pattern: pattern.result } : {}) }
       const { converged, reason } = surface.solver
       // the worker's report is ours, but its reason is a plain string: name unknown codes 'unknown'
       const why = solverReasonSchema.parse(reason ?? 'not-converged')
@@ -148,7 +201,15 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
   }
 
   const onLoaded = (room: LiveRoom) => {
-    const w: Watch = { room, running: null, dirty: false, scheduled: false, warmKey: null, waiters: new Set(), onUpdate: () => schedule(w) }
+    const w: Watch = {
+      room,
+      running: null,
+      dirty: false,
+      scheduled: false,
+      warmKey: null,
+      waiters: new Set(),
+      onUpdate: () => schedule(w),
+    }
     watches.set(room.roomId, w)
     room.doc.on('update', w.onUpdate)
     schedule(w)
@@ -170,6 +231,7 @@ export function createSolveLoop(opts: { rooms: RoomDocs; pool: SolvePool; emit: 
       const out: LatestEvent[] = []
       if (w?.surface) out.push({ event: 'surface', payload: w.surface })
       if (w?.state) out.push({ event: 'solve:state', payload: w.state })
+      if (w?.pattern) out.push({ event: 'pattern', payload: w.pattern })
       return out
     },
     settledSurface: (roomId, ms) => {

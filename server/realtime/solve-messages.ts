@@ -1,4 +1,5 @@
 /** Messages between the solve pool (main thread) and its workers. Typed arrays travel transferred. */
+import type { RoomCuts, RoomPatternPayload } from '../../shared/pattern/index.js'
 import type { Surface } from '../../shared/protocol/index.js'
 import type { Frame } from '../../shared/types.js'
 
@@ -9,6 +10,8 @@ export interface SolveJobMessage {
   frame: Frame
   /** A quick preview at a larger element size; solved with its own (separate) warm state. */
   coarse: boolean
+  /** The room's seams, checked: after a settled fine solve the worker lays the strips flat too. */
+  cuts?: RoomCuts | undefined
   /** Int32Array(1) over this buffer: the pool writes 1 to cancel; the worker reads it as signal.aborted. */
   cancel: SharedArrayBuffer
 }
@@ -22,5 +25,5 @@ export type ToWorker = SolveJobMessage | ForgetMessage
 
 export type FromWorker =
   | { type: 'progress'; jobId: number; iteration: number; residual: number }
-  | ({ type: 'result'; jobId: number } & Surface)
+  | ({ type: 'result'; jobId: number; pattern?: RoomPatternPayload | undefined } & Surface)
   | { type: 'failed'; jobId: number; message: string }

@@ -4,13 +4,14 @@
  * the job cold (and becomes the room's home). Cancellation is cooperative through a shared flag.
  */
 import { Worker } from 'node:worker_threads'
+import type { RoomCuts, RoomPatternPayload } from '../../shared/pattern/index.js'
 import type { Frame } from '../../shared/types.js'
 import { logger } from '../lib/logger.js'
 import type { Surface } from '../../shared/protocol/index.js'
 import type { FromWorker, ToWorker } from './solve-messages.js'
 
 export type SolveOutcome =
-  | ({ kind: 'result'; worker: number } & Surface)
+  | ({ kind: 'result'; worker: number; pattern?: RoomPatternPayload | undefined } & Surface)
   /** `solver` is there when the worker answered: its reason says whether the engine saw the flag. */
   | { kind: 'cancelled'; solver?: Surface['solver'] }
   | { kind: 'failed'; message: string }
@@ -26,6 +27,7 @@ interface Job {
   roomId: string
   frame: Frame
   coarse: boolean
+  cuts: RoomCuts | undefined
   flag: Int32Array
   onProgress: (iteration: number, residual: number) => void
   resolve: (o: SolveOutcome) => void
@@ -51,11 +53,11 @@ export class SolvePool {
   }
 
   /** Queues a solve of `frame` for a room. */
-  solve(roomId: string, frame: Frame, opts: { coarse?: boolean; onProgress?: Job['onProgress'] } = {}): SolveHandle {
+  solve(roomId: string, frame: Frame, opts: { coarse?: boolean; onProgress?: Job['onProgress']; cuts?: RoomCuts | undefined } = {}): SolveHandle {
     const flag = new Int32Array(new SharedArrayBuffer(4))
     let resolve!: (o: SolveOutcome) => void
     const done = new Promise<SolveOutcome>((r) => (resolve = r))
-    const job: Job = { id: this.nextId++, roomId, frame, coarse: opts.coarse ?? false, flag, onProgress: opts.onProgress ?? (() => undefined), resolve }
+    const job: Job = { id: this.nextId++, roomId, frame, coarse: opts.coarse ?? false, cuts: opts.cuts, flag, onProgress: opts.onProgress ?? (() => undefined), resolve }
     if (this.closed) resolve({ kind: 'cancelled' })
     else {
       this.queue.push(job)
@@ -140,7 +142,7 @@ export class SolvePool {
     slot.job = job
     // Only an idle pool may let the process exit.
     slot.worker.ref()
-    const message: ToWorker = { type: 'solve', jobId: job.id, roomId: job.roomId, frame: job.frame, coarse: job.coarse, cancel: job.flag.buffer as SharedArrayBuffer }
+    const message: ToWorker = { type: 'solve', jobId: job.id, roomId: job.roomId, frame: job.frame, coarse: job.coarse, cuts: job.cuts, cancel: job.flag.buffer as SharedArrayBuffer }
     slot.worker.postMessage(message)
   }
 

@@ -4,6 +4,7 @@
  * sends the surface back with its typed arrays transferred.
  */
 import { parentPort } from 'node:worker_threads'
+import { PatternError, roomPattern, type RoomPatternPayload } from '../../shared/pattern/index.js'
 import { starterFrame } from '../../shared/room-doc/starters.js'
 import { computeFigures, createSurfaceSolver, type SurfaceSolver } from './engine-link.js'
 import type { FromWorker, SolveJobMessage, ToWorker } from './solve-messages.js'
@@ -46,13 +47,28 @@ async function solve(job: SolveJobMessage): Promise<void> {
     const figures = computeFigures(mesh, job.frame, { residual: report.residual })
     const vertices = Float32Array.from(mesh.vertices)
     const triangles = Uint32Array.from(mesh.triangles)
-    port!.postMessage({ type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report } satisfies FromWorker, [
-      vertices.buffer,
-      triangles.buffer,
-    ])
+    // the same job lays the strips flat, so the next edit's cancel flag stops both
+    const pattern = job.cuts && !job.coarse && report.converged ? patternOrCancelled(mesh.vertices, mesh.triangles, job.cuts, signal) : undefined
+    const transfer = [vertices.buffer, triangles.buffer, ...(pattern ? patternBuffers(pattern) : [])]
+    port!.postMessage({ type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report, pattern } satisfies FromWorker, transfer)
   } catch (err) {
     post({ type: 'failed', jobId: job.jobId, message: err instanceof Error ? err.message : String(err) })
   }
+}
+
+/** The pattern, or undefined when the next edit cancelled it (the pool then reports the job cancelled). */
+function patternOrCancelled(...args: Parameters<typeof roomPattern>): RoomPatternPayload | undefined {
+  try {
+    return roomPattern(...args)
+  } catch (err) {
+    if (err instanceof PatternError && err.code === 'cancelled') return undefined
+    throw err
+  }
+}
+
+function patternBuffers(p: RoomPatternPayload): ArrayBuffer[] {
+  const arrays = [p.cutVertices, p.cutTriangles, p.triangleStrip, p.flat.uv, p.flat.triangles, p.flat.strain]
+  return [...new Set(arrays.map((a) => a.buffer as ArrayBuffer))]
 }
 
 function post(m: FromWorker): void {

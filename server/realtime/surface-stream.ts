@@ -103,6 +103,7 @@ export function attachSurfaceStream(io: StreamServer, opts: SurfaceStreamOptions
         reply({ ok: true, role })
         for (const latest of opts.latest(roomId)) {
           if (latest.event === 'surface') socket.emit('surface', latest.payload)
+          else if (latest.event === 'pattern') socket.emit('pattern', latest.payload)
           else socket.emit('solve:state', latest.payload)
         }
       } catch (err) {

@@ -20,3 +20,5 @@ export {
   type StripSeam,
   type TriangleMesh,
 } from './types'
+export { cutsForSurface, roomCutsSchema, seamFamilySchema, type RoomCuts, type SeamFamily } from './families'
+export { noRoomPattern, roomPattern, type RoomPatternPayload } from './room-pattern'

@@ -5,6 +5,7 @@
  * schema so the receiving side parses what it gets instead of trusting the map.
  */
 import { z } from 'zod'
+import { patternEventSchema, type PatternEvent } from './pattern'
 import { pinChangedEventSchema, pinDeletedEventSchema, type PinChangedEvent, type PinDeletedEvent } from './pins'
 import { roomRoleSchema, type RoomRole } from './roles'
 import {
@@ -42,6 +43,8 @@ export interface ServerToClientEvents {
   surface: (e: SurfaceEvent) => void
   'solve:state': (e: SolveStateEvent) => void
   'solve:progress': (e: SolveProgressEvent) => void
+  /** The room's flat patterns after a settle, or why there are none. */
+  pattern: (e: PatternEvent) => void
   'pin:changed': (e: PinChangedEvent) => void
   'pin:deleted': (e: PinDeletedEvent) => void
 }
@@ -60,6 +63,7 @@ export const serverEventSchemas: { [E in ServerEvent]: z.ZodType<ServerPayload<E
   surface: surfaceEventSchema,
   'solve:state': solveStateEventSchema,
   'solve:progress': solveProgressEventSchema,
+  pattern: patternEventSchema,
   'pin:changed': pinChangedEventSchema,
   'pin:deleted': pinDeletedEventSchema,
 }

@@ -1,6 +1,7 @@
 export * from './caution'
 export * from './events'
 export * from './frame'
+export * from './pattern'
 export * from './pins'
 export * from './roles'
 export * from './solver-reasons'

@@ -12,6 +12,8 @@ export interface Snapshot {
   frame: unknown
   surface: Buffer
   figures: unknown
+  /** The flat patterns (PatternResult) of the surface when the room had seams, else null. */
+  pattern: unknown
   createdAt: Date
   room?: Room
   author?: User | null
@@ -30,6 +32,7 @@ export const SnapshotEntity = new EntitySchema<Snapshot>({
     frame: { type: 'json' },
     surface: { type: 'longblob' },
     figures: { type: 'json' },
+    pattern: { type: 'json', nullable: true },
     createdAt: { type: 'datetime', precision: 3, name: 'created_at', createDate: true },
   },
   relations: {

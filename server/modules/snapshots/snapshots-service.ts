@@ -1,9 +1,10 @@
+import type { PatternResult } from '../../../shared/pattern/index.js'
 import { randomUUID } from 'node:crypto'
 import type { DataSource } from 'typeorm'
 import type { Figures, Frame, SurfaceResult } from '../../../shared/types.js'
 import type { Snapshot, User } from '../../db/entities/index.js'
 import { AppError, notFound } from '../../lib/app-error.js'
-import type { VersionedSurface } from '../../../shared/protocol/index.js'
+import type { SettledSurface } from '../../../shared/protocol/index.js'
 import type { LiveRoomPort } from '../../live-room-port/index.js'
 import type { CreateSnapshotBody } from './snapshots-schema.js'
 import { snapshotsRepository } from './snapshots-repository.js'
@@ -46,7 +47,7 @@ export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort
   }
 
   /** The room's frame with the settled surface solved from it; 409 while there is none or it lags an edit. */
-  async function current(roomId: string): Promise<{ frame: Frame; surface: VersionedSurface }> {
+  async function current(roomId: string): Promise<{ frame: Frame; surface: SettledSurface }> {
     const { frame, version, invalid } = await live.getRoomFrame(roomId)
     if (invalid) throw new AppError('invalid_frame', 409, `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`, invalid.path)
     if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame yet.')
@@ -73,14 +74,14 @@ export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort
       const { frame, surface } = await current(roomId)
       const id = randomUUID()
       const blob = encodeSurface({ vertices: surface.vertices, triangles: surface.triangles, solver: surface.solver })
-      await repo.insert({ id, roomId, name: input.name, note: input.note, authorId, frame, surface: blob, figures: surface.figures })
+      await repo.insert({ id, roomId, name: input.name, note: input.note, authorId, frame, surface: blob, figures: surface.figures, pattern: surface.pattern ?? null })
       const saved = await load(roomId, id)
       return { ...head(saved), figures: figuresSummary(surface.figures) }
     },
 
     async get(roomId: string, id: string) {
       const s = await load(roomId, id)
-      return { ...head(s), frame: s.frame as Frame, figures: s.figures as Figures }
+      return { ...head(s), frame: s.frame as Frame, figures: s.figures as Figures, pattern: (s.pattern ?? null) as PatternResult | null }
     },
 
     /** Everything needed for downloads: name, frame, figures and the decoded surface. */
