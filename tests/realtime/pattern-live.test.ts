@@ -10,9 +10,6 @@ import { parseServerEvent, type PatternEvent } from '../../shared/protocol/index
 import { addSeamFamily, patternMap, removeSeamFamily } from '../../shared/room-doc/seams.js'
 import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type Live } from './live-helpers.js'
 
-  triangleStrip?: unknown
-}
-
 let live: Live
 let owner: { id: string; cookie: string }
 const closers: (() => void)[] = []
