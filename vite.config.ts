@@ -10,6 +10,18 @@ export default defineConfig({
       '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
     },
   },
+  build: {
+    rolldownOptions: {
+      output: {
+        codeSplitting: {
+          groups: [
+            { name: 'three-core', test: /node_modules[\\/]three[\\/]build[\\/]three\.core/ },
+            { name: 'three-webgl', test: /node_modules[\\/]three[\\/]/ },
+          ],
+        },
+      },
+    },
+  },
   server: {
     proxy: {
       '/api': 'http://127.0.0.1:3210',

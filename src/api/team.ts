@@ -13,7 +13,7 @@ import {
   type SurfaceMesh,
 } from '../../shared/protocol'
 import type { Frame } from '../../shared/types'
-import { ApiError, request, type Member } from './http'
+import { request, type Member } from './http'
 
 export type { Pin } from '../../shared/protocol'
 
@@ -151,12 +151,7 @@ export async function uploadUnderlay(roomId: string, image: File, scale: Omit<Un
 }
 /** GET /api/rooms/:id/underlay/meta; null when the room has none. */
 export async function getUnderlayMeta(roomId: string): Promise<UnderlayMeta | null> {
-  try {
-    return (await request('GET', `${roomPath(roomId)}/underlay/meta`, undefined, replies.underlay)).underlay
-  } catch (err) {
-    if (err instanceof ApiError && err.status === 404 && err.code !== 'room_not_found') return null
-    throw err
-  }
+  return (await request('GET', `${roomPath(roomId)}/underlay/meta`, undefined, replies.underlay)).underlay
 }
 /** DELETE /api/rooms/:id/underlay. */
 export const deleteUnderlay = (roomId: string) => request('DELETE', `${roomPath(roomId)}/underlay`, undefined, null)

@@ -122,7 +122,10 @@ describe('underlay image', () => {
     expect(jpeg.body.underlay).toMatchObject({ mime: 'image/jpeg', width: 640, height: 480 })
 
     expect((await cast.clients.editor.delete(`${room()}/underlay`)).status).toBe(204)
-    expect((await cast.clients.viewer.get(`${room()}/underlay/meta`)).body.error.code).toBe('no_underlay')
+    // No underlay is an empty value, not an error: the room page asks on every open (issue 14).
+    const none = await cast.clients.viewer.get(`${room()}/underlay/meta`)
+    expect(none.status).toBe(200)
+    expect(none.body).toEqual({ underlay: null })
   })
 
   it('checks the type by content, the size and the scale', async () => {

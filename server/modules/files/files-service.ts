@@ -57,10 +57,10 @@ export function underlayService(dataSource: DataSource) {
       const saved = await repo.meta(roomId)
       return view(saved!)
     },
+    /** The underlay's scale and size; null when the room has none (an empty value, not an error). */
     async meta(roomId: string) {
       const u = await repo.meta(roomId)
-      if (!u) throw noUnderlay()
-      return view(u)
+      return u ? view(u) : null
     },
     async image(roomId: string) {
       const u = await repo.image(roomId)
