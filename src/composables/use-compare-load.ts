@@ -31,10 +31,8 @@ export function useSnapshotCompare(roomId: Ref<string>, aId: Ref<string | null>,
     a.value = null
     b.value = null
     error.value = null
-    if (!ida || !idb) {
-      error.value = 'Pick two snapshots to compare: the link needs ?a=…&b=… with two snapshot ids.'
-      return
-    }
+    // Until two are picked the page shows its pickers; nothing to load and nothing wrong.
+    if (!ida || !idb) return
     loading.value = true
     try {
       const [sa, sb] = await Promise.all([side(ida), side(idb)])

@@ -10,6 +10,15 @@ import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js'
 
 export type ViewMode = 'plan' | '3d'
 
+/** CSS pixels along each side of the canvas that overlays cover. */
+export interface Insets {
+  top: number
+  right: number
+  bottom: number
+  left: number
+}
+const NO_INSETS: Insets = { top: 0, right: 0, bottom: 0, left: 0 }
+
 export interface Viewport {
   scene: THREE.Scene
   camera(): THREE.Camera
@@ -17,8 +26,11 @@ export interface Viewport {
   /** Schedules one render on the next animation frame (repeated calls coalesce). */
   requestRender(): void
   setMode(mode: ViewMode): void
-  /** Frames a plan box (m) in both cameras. */
-  fit(min: THREE.Vector3Like, max: THREE.Vector3Like): void
+  /**
+   * Frames a plan box (m) in both cameras, inside the part of the canvas that `insets` (CSS px
+   * covered by overlays: toolbar, legend, hint) leave free.
+   */
+  fit(min: THREE.Vector3Like, max: THREE.Vector3Like, insets?: Insets): void
   /** Screen position (CSS px relative to the canvas) of a world point. */
   project(p: THREE.Vector3Like): { x: number; y: number }
   /** World ray under a pointer event. */
@@ -104,22 +116,39 @@ export function useViewport(host: Ref<HTMLElement | null>, initialMode: ViewMode
       requestRender()
     }
 
-    const fit = (min: THREE.Vector3Like, max: THREE.Vector3Like): void => {
+    const fit = (min: THREE.Vector3Like, max: THREE.Vector3Like, insets: Insets = NO_INSETS): void => {
       const c = new THREE.Vector3((min.x + max.x) / 2, (min.y + max.y) / 2, (min.z + max.z) / 2)
       const radius = Math.max(1, new THREE.Vector3(max.x - min.x, max.y - min.y, max.z - min.z).length() / 2)
-      const aspect = Math.max(1, el.clientWidth) / Math.max(1, el.clientHeight)
+      const w = Math.max(1, el.clientWidth)
+      const h = Math.max(1, el.clientHeight)
+      // The free rectangle, never under 40 % of the canvas (a tiny canvas still shows the structure).
+      const sw = Math.max(0.4 * w, w - insets.left - insets.right)
+      const sh = Math.max(0.4 * h, h - insets.top - insets.bottom)
+      // Screen offset (px, y down) of the free rectangle's centre from the canvas centre.
+      const ox = (insets.left - insets.right) / 2
+      const oy = (insets.top - insets.bottom) / 2
+      const aspect = w / h
       // the bounding sphere must fit the narrower of the two fields of view, with a margin
-      const halfV = THREE.MathUtils.degToRad(persp.fov / 2)
-      const halfFov = Math.min(halfV, Math.atan(Math.tan(halfV) * aspect))
+      const tanV = Math.tan(THREE.MathUtils.degToRad(persp.fov / 2))
+      const halfFov = Math.atan(Math.min(tanV * (sh / h), tanV * aspect * (sw / w)))
       const distance = (1.15 * radius) / Math.sin(halfFov)
       const dir = new THREE.Vector3(-0.45, -0.75, 0.5).normalize()
       persp.position.copy(c).addScaledVector(dir, distance)
-      perspControls.target.copy(c)
+      persp.lookAt(c)
+      // Shift camera and target together so the centre lands in the middle of the free rectangle.
+      const perPixel = (2 * distance * tanV) / h
+      persp.updateMatrixWorld()
+      const right = new THREE.Vector3().setFromMatrixColumn(persp.matrixWorld, 0)
+      const up = new THREE.Vector3().setFromMatrixColumn(persp.matrixWorld, 1)
+      const shift = right.multiplyScalar(-ox * perPixel).addScaledVector(up, oy * perPixel)
+      persp.position.add(shift)
+      perspControls.target.copy(c).add(shift)
       perspControls.update()
-      const half = 1.15 * Math.max((max.y - min.y) / 2, (max.x - min.x) / 2 / aspect, 1)
-      Object.assign(ortho, { left: -half * aspect, right: half * aspect, top: half, bottom: -half, zoom: 1 })
-      ortho.position.set(c.x, c.y, 500)
-      orthoControls.target.set(c.x, c.y, 0)
+      // Plan: metres per pixel so the box (with a margin) fits the free rectangle.
+      const m = Math.max(((max.x - min.x) * 1.15) / sw, ((max.y - min.y) * 1.15) / sh, 2 / sh)
+      Object.assign(ortho, { left: (-w / 2) * m, right: (w / 2) * m, top: (h / 2) * m, bottom: (-h / 2) * m, zoom: 1 })
+      ortho.position.set(c.x - ox * m, c.y + oy * m, 500)
+      orthoControls.target.set(c.x - ox * m, c.y + oy * m, 0)
       ortho.updateProjectionMatrix()
       orthoControls.update()
       requestRender()

@@ -13,6 +13,16 @@ export interface LaunchedBrowser {
   close: () => Promise<void>
 }
 
+/** Flags for headless Debian chromium: no sandbox (root in a container), no background traffic. */
+export const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+]
+
 /**
  * Headless chromium with a fresh profile in a temporary folder, so no cookie or cache survives
  * between runs. Background networking is off: a test sees only the requests the app makes.
@@ -23,14 +33,7 @@ export async function launchBrowser(options: { viewport?: { width: number; heigh
     executablePath: CHROMIUM_PATH,
     headless: true,
     viewport: options.viewport ?? { width: 1280, height: 800 },
-    args: [
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-      '--no-first-run',
-    ],
+    args: CHROMIUM_ARGS,
   })
   const page = context.pages()[0] ?? (await context.newPage())
   return {
