@@ -7,11 +7,13 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs'
 import { extname } from 'node:path'
+import { parseArgs } from 'node:util'
 import { solveFrame } from '../shared/engine'
 import { figuresToCsv, surfaceResultToJson, toObj, toStl } from '../shared/export'
 import { FrameError, parseFrameCsv, parseFrameJson } from '../shared/frame'
 import { MeshError } from '../shared/mesh'
 import { CAUTION, reasonWords } from '../shared/protocol'
+import { cableName } from '../shared/report'
 import type { Frame } from '../shared/types'
 
 interface Args {
@@ -27,30 +29,37 @@ function fail(code: number, message: string): never {
   process.exit(code)
 }
 
-function parseArgs(argv: readonly string[]): Args {
-  const usage = 'usage: npm run solve -- FRAME.json|FRAME.csv --out SURFACE.json [--format json|obj|stl] [--figures FIGURES.csv] [--edge-length H]'
-  let input: string | undefined
-  const args: Partial<Args> = { format: 'json' }
-  for (let i = 0; i < argv.length; i++) {
-    const a = argv[i]!
-    const value = (): string => argv[++i] ?? fail(1, `${a} needs a value\n${usage}`)
-    if (a === '--out') args.out = value()
-    else if (a === '--figures') args.figures = value()
-    else if (a === '--format') {
-      const f = value()
-      if (f !== 'json' && f !== 'obj' && f !== 'stl') fail(1, `--format: "${f}" is not one of json, obj, stl`)
-      args.format = f
-    } else if (a === '--edge-length') {
-      const h = Number(value())
-      if (!(h > 0) || !Number.isFinite(h)) fail(1, '--edge-length: must be a number > 0 (metres)')
-      args.edgeLength = h
-    } else if (a === '--help' || a === '-h') fail(0, usage)
-    else if (a.startsWith('--')) fail(1, `unknown option ${a}\n${usage}`)
-    else if (input === undefined) input = a
-    else fail(1, `unexpected argument ${a}\n${usage}`)
+const usage = 'usage: npm run solve -- FRAME.json|FRAME.csv --out SURFACE.json [--format json|obj|stl] [--figures FIGURES.csv] [--edge-length H]'
+
+/** The command line, read with node:util parseArgs; a bad option exits 1 naming it. */
+function readArgs(argv: string[]): Args {
+  let parsed
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        out: { type: 'string' },
+        figures: { type: 'string' },
+        format: { type: 'string', default: 'json' },
+        'edge-length': { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    })
+  } catch (err) {
+    fail(1, `${(err as Error).message}\n${usage}`)
   }
-  if (input === undefined) fail(1, usage)
-  return { ...args, input } as Args
+  const { values, positionals } = parsed
+  if (values.help) fail(0, usage)
+  if (positionals.length !== 1) fail(1, positionals.length ? `unexpected argument ${positionals[1]}\n${usage}` : usage)
+  const format = values.format
+  if (format !== 'json' && format !== 'obj' && format !== 'stl') fail(1, `--format: "${format}" is not one of json, obj, stl`)
+  let edgeLength: number | undefined
+  if (values['edge-length'] !== undefined) {
+    edgeLength = Number(values['edge-length'])
+    if (!(edgeLength > 0) || !Number.isFinite(edgeLength)) fail(1, '--edge-length: must be a number > 0 (metres)')
+  }
+  return { input: positionals[0]!, out: values.out, format, figures: values.figures, edgeLength }
 }
 
 function readFrame(args: Args): Frame {
@@ -73,7 +82,7 @@ function readFrame(args: Args): Frame {
 }
 
 function main(): void {
-  const args = parseArgs(process.argv.slice(2))
+  const args = readArgs(process.argv.slice(2))
   const frame = readFrame(args)
   let result
   try {
@@ -90,7 +99,9 @@ function main(): void {
     `Area ${f.area.toFixed(3)} m², plan area ${f.planArea.toFixed(3)} m², perimeter ${f.perimeter.toFixed(3)} m`,
     `Height ${f.heightRange[0].toFixed(3)}…${f.heightRange[1].toFixed(3)} m, slope ${f.slopeRange[0].toFixed(1)}…${f.slopeRange[1].toFixed(1)}°, flat (< ${f.flatThreshold}°) ${(100 * f.flatShare).toFixed(1)} %`,
     `Ponding pockets: ${f.pondingPockets.length}${f.pondingPockets.map((p) => ` (${p.x.toFixed(2)}, ${p.y.toFixed(2)}) ${p.area.toFixed(2)} m²`).join(',')}`,
-    ...f.cables.map((c) => `Cable loop ${c.loop} edge ${c.edge}: length ${c.length.toFixed(3)} m, force ${c.force} kN, sag ${c.sag.toFixed(3)} m`),
+    ...f.cables.map(
+      (c) => `Cable ${cableName(c)}: length ${c.length.toFixed(3)} m, prestress-state force ${c.force.toFixed(1)} kN, sag ${c.sag.toFixed(3)} m`,
+    ),
     `Caution: ${CAUTION}`,
   ]
   process.stdout.write(lines.join('\n') + '\n')

@@ -53,14 +53,14 @@ try {
 // The seed module is the one list of demo accounts; tsx loads it without a build step.
 const { tsImport } = await import('tsx/esm/api')
 const { demoAccounts } = await tsImport('../server/db/seed.ts', import.meta.url)
+const { cautionLines } = await tsImport('../shared/protocol/caution.ts', import.meta.url)
 console.log(`
   Veilroom is running at ${process.env.PUBLIC_URL ?? server.url}
 
-  Demo practice "Harrow & Vale Membranes" (fictional); sign in as:
+  Demo practice "Demo Tensile Studio" (fictional); sign in as:
 ${demoAccounts.map((a) => `    ${a.email.padEnd(30)} ${a.password.padEnd(22)} ${a.role}`).join('\n')}
 
-  Form-finding results are preliminary: loads, stresses, patterning, anchors and connections
-  must be checked by a qualified engineer under local codes.
+${cautionLines('  ').trimEnd()}
   Ctrl-C stops the server and the database.
 `)
 

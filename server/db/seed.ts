@@ -5,26 +5,26 @@ import { logger } from '../lib/logger.js'
 import { BCRYPT_COST } from '../modules/auth/auth-service.js'
 import { MembershipEntity, RoomEntity, UserEntity, type RoomRole } from './entities/index.js'
 
-// Demo data for a fictional practice, Harrow & Vale Membranes. The passwords are printed by
+// Demo data for a fictional practice, Demo Tensile Studio. The passwords are printed by
 // `npm start` and used by the browser tests; they guard nothing but demo rooms on a dev machine.
-export const DEMO_PRACTICE = 'Harrow & Vale Membranes'
+export const DEMO_PRACTICE = 'Demo Tensile Studio'
 
 export const demoAccounts = [
-  { email: 'owner@demo.veilroom.test', name: 'Imogen Vale', password: 'vale-owner-canopy', role: 'owner' },
-  { email: 'editor@demo.veilroom.test', name: 'Tobias Harrow', password: 'harrow-editor-sail', role: 'editor' },
-  { email: 'reviewer@demo.veilroom.test', name: 'Priya Lund', password: 'lund-reviewer-check', role: 'reviewer' },
+  { email: 'owner@demo.veilroom.test', name: 'Demo Owner', password: 'demo-owner-canopy', role: 'owner' },
+  { email: 'editor@demo.veilroom.test', name: 'Demo Editor', password: 'demo-editor-sail', role: 'editor' },
+  { email: 'reviewer@demo.veilroom.test', name: 'Demo Reviewer', password: 'demo-reviewer-check', role: 'reviewer' },
 ] as const satisfies readonly { email: string; name: string; password: string; role: RoomRole }[]
 
 export const demoRooms = [
   {
     key: 'courtyard',
-    name: 'Courtyard canopy — Linden School',
-    description: `${DEMO_PRACTICE}: a canopy over the school courtyard, hung from four walls and one central mast.`,
+    name: 'Courtyard canopy — Example Yard A',
+    description: `${DEMO_PRACTICE}: a canopy over an invented courtyard, hung from four walls and one central mast.`,
   },
   {
     key: 'shade-sail',
-    name: 'Four-point shade sail — Quay Café',
-    description: `${DEMO_PRACTICE}: a hypar shade sail over the café terrace, two high and two low corners on edge cables.`,
+    name: 'Four-point shade sail — Example Terrace B',
+    description: `${DEMO_PRACTICE}: a hypar shade sail over an invented terrace, two high and two low corners on edge cables.`,
   },
 ] as const
 

@@ -15,3 +15,12 @@ export const pointName = (loop: string, point: number): string => `${loop} P${po
 
 /** "Hole 1 E4" for edge index 3 of loop "Hole 1". */
 export const edgeName = (loop: string, edge: number): string => `${loop} E${edge + 1}`
+
+/**
+ * The name of frame loop `index` of a valid frame, whose outer loop is loops[0] and the rest holes
+ * (shared/frame/validate.ts): for figures that carry loop indices without the frame (cables, reactions).
+ */
+export const loopNameAt = (index: number): string => (index === 0 ? 'Outer' : `Hole ${index}`)
+
+/** "Outer E2" for a cable figure { loop: 0, edge: 1 }. */
+export const cableName = (c: { loop: number; edge: number }): string => edgeName(loopNameAt(c.loop), c.edge)

@@ -1,8 +1,10 @@
 /**
  * Figure differences between two snapshots, for the comparison table: B minus A, and B relative
- * to A where A is not zero. Cables are matched by loop and edge index, the way figures name them.
+ * to A where A is not zero. Cables are matched by loop and edge index and named as the workbench
+ * names them ("Cable Outer E2", shared/report/numbering.ts).
  */
 import type { SnapshotFigures } from '../api/team'
+import { cableName } from '../../shared/report'
 
 export interface FigureRow {
   key: string
@@ -49,9 +51,9 @@ export function figureDifferences(a: Readonly<SnapshotFigures>, b: Readonly<Snap
   })
   for (const k of keys) {
     const [loop, edge] = k.split(':').map(Number) as [number, number]
-    const name = `Cable loop ${loop + 1} edge ${edge + 1}`
+    const name = `Cable ${cableName({ loop, edge })}`
     rows.push(row(`cable${k}:length`, `${name}: length`, 'm', ca.get(k)?.length, cb.get(k)?.length))
-    rows.push(row(`cable${k}:force`, `${name}: force`, 'kN', ca.get(k)?.force, cb.get(k)?.force))
+    rows.push(row(`cable${k}:force`, `${name}: prestress-state force`, 'kN', ca.get(k)?.force, cb.get(k)?.force))
   }
   return rows
 }

@@ -9,7 +9,7 @@ import { openRoomTab } from './room-tabs'
 // includes the edit and the same new fabric area; the reviewer watches read-only. Expected
 // behaviour: notes/protocol.md (state vectors tell whether a surface includes an edit; reviewers'
 // updates are dropped and the client shows read-only).
-const ROOM = 'Courtyard canopy — Linden School'
+const ROOM = 'Courtyard canopy — Example Yard A'
 const OWNER = 'owner@demo.veilroom.test'
 const EDITOR = 'editor@demo.veilroom.test'
 const REVIEWER = 'reviewer@demo.veilroom.test'

@@ -6,7 +6,7 @@ import { openRoomTab } from './room-tabs'
 // What a signed-in editor must see comes from the demo seed (issue 2): the editor is a member of
 // both demo rooms. The caution wording is the product brief's ("Cautions shown with results").
 const EDITOR = 'editor@demo.veilroom.test'
-const DEMO_ROOMS = ['Courtyard canopy — Linden School', 'Four-point shade sail — Quay Café']
+const DEMO_ROOMS = ['Courtyard canopy — Example Yard A', 'Four-point shade sail — Example Terrace B']
 
 describe('signing in as the demo editor', () => {
   let browser: LaunchedBrowser

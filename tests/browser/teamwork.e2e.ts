@@ -8,7 +8,7 @@ import { openRoomTab } from './room-tabs'
 // in the dev mailbox, the guest signs up through the link and accepts, pins a comment, the owner
 // replies and resolves (seen live by the guest), saves two snapshots and compares them.
 const OWNER = 'owner@demo.veilroom.test'
-const ROOM = 'Four-point shade sail — Quay Café'
+const ROOM = 'Four-point shade sail — Example Terrace B'
 // Unique per run, so the test also passes against a server that has seen earlier runs.
 const RUN = Date.now().toString(36)
 const GUEST = `guest-${RUN}@studio.veilroom.test`

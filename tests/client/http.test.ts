@@ -10,7 +10,7 @@ import { csrfIssuer, fakeServer } from './fake-server'
 const editor = { id: 7, email: 'editor@demo.veilroom.test', name: 'Edda Editor' }
 const roomJson = {
   id: 'a6f0c0de-1111-4222-8333-944455556666',
-  name: 'Courtyard canopy — Linden School',
+  name: 'Courtyard canopy — Example Yard A',
   description: 'Four masts over the courtyard',
   role: 'editor',
   memberCount: 3,

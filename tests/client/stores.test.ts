@@ -75,19 +75,19 @@ describe('useRoomsStore', () => {
     let created = 0
     fakeServer({
       'GET /api/auth/csrf': csrfIssuer(),
-      'GET /api/rooms': () => ({ status: 200, body: { rooms: [room('r1', 'Quay sail')] } }),
+      'GET /api/rooms': () => ({ status: 200, body: { rooms: [room('r1', 'Terrace sail')] } }),
       'POST /api/rooms': (req) => ({ status: 201, body: { room: room(`n${++created}`, (req.body as { name: string }).name) } }),
       'PATCH /api/rooms/r1': (req) => ({ status: 200, body: { room: room('r1', (req.body as { name: string }).name) } }),
       'DELETE /api/rooms/r1': () => ({ status: 204 }),
     })
     const rooms = useRoomsStore()
     await rooms.list()
-    expect(rooms.rooms.map((r) => r.name)).toEqual(['Quay sail'])
+    expect(rooms.rooms.map((r) => r.name)).toEqual(['Terrace sail'])
     await rooms.create('  Hypar over the bike shed ', '')
     expect(rooms.rooms.map((r) => r.id)).toEqual(['n1', 'r1'])
     expect(rooms.rooms[0]?.name).toBe('Hypar over the bike shed')
-    await rooms.rename('r1', 'Quay sail, four points')
-    expect(rooms.rooms.find((r) => r.id === 'r1')?.name).toBe('Quay sail, four points')
+    await rooms.rename('r1', 'Terrace sail, four points')
+    expect(rooms.rooms.find((r) => r.id === 'r1')?.name).toBe('Terrace sail, four points')
     expect(rooms.rooms[1]).not.toHaveProperty('createdAt')
     await rooms.remove('r1')
     expect(rooms.rooms.map((r) => r.id)).toEqual(['n1'])
@@ -96,7 +96,7 @@ describe('useRoomsStore', () => {
   it('keeps the list unchanged when the server refuses a delete', async () => {
     fakeServer({
       'GET /api/auth/csrf': csrfIssuer(),
-      'GET /api/rooms': () => ({ status: 200, body: { rooms: [room('r1', 'Quay sail', 'editor')] } }),
+      'GET /api/rooms': () => ({ status: 200, body: { rooms: [room('r1', 'Terrace sail', 'editor')] } }),
       'DELETE /api/rooms/r1': () => ({ status: 403, body: { error: { code: 'forbidden', message: 'Owners only' } } }),
     })
     const rooms = useRoomsStore()

@@ -51,7 +51,7 @@ let tw: TeamworkServer
 let cast: RoomCast
 beforeAll(async () => {
   tw = await startTeamworkServer(engine.live)
-  cast = await roomWithCast(tw, 'Quay Café / "shade sail" — Süd')
+  cast = await roomWithCast(tw, 'Terrace Café / "shade sail" — Süd')
 })
 afterAll(async () => {
   await tw?.stop()
@@ -157,7 +157,7 @@ describe('downloads', () => {
     const json = await download(cast.clients.viewer, `${room()}/frame.json`)
     expect(json.status).toBe(200)
     const disposition = json.headers.get('content-disposition') ?? ''
-    expect(disposition).toMatch(/^attachment; filename="?Quay-Cafe-shade-sail-Sud-frame\.json"?$/)
+    expect(disposition).toMatch(/^attachment; filename="?Terrace-Cafe-shade-sail-Sud-frame\.json"?$/)
     expect(JSON.parse(json.bytes.toString()).caution).toMatch(/qualified engineer/)
     const back = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('again.json', json.bytes))
     expect(back.body.frame).toEqual({ ...frame, mesh: { edgeLength: 0.5 } })
@@ -199,7 +199,7 @@ describe('downloads', () => {
     engine.setFrame(parseFrameJson(example('hypar-sail.json')), { settle: false })
     const base = `${room()}/snapshots/${saved.body.snapshot.id}`
     const json = await download(cast.clients.viewer, `${base}/frame.json`)
-    expect(json.headers.get('content-disposition')).toMatch(/filename="?Quay-Cafe-shade-sail-Sud-Tent-v2-mast-6-m-frame\.json"?$/)
+    expect(json.headers.get('content-disposition')).toMatch(/filename="?Terrace-Cafe-shade-sail-Sud-Tent-v2-mast-6-m-frame\.json"?$/)
     const back = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('again.json', json.bytes))
     expect(back.body.frame).toEqual(frame)
     const csv = (await download(cast.clients.viewer, `${base}/figures.csv`)).bytes.toString()

@@ -24,13 +24,13 @@ describe('fake SMTP server', () => {
 
   it('receives a nodemailer message with UTF-8 subject, long text and HTML', async () => {
     const mailer = createMailer({ host: '127.0.0.1', port: smtp.port, from: 'Veilroom <no-reply@veilroom.test>', secure: false })
-    const longLine = 'Courtyard canopy — Linden School: ' + 'ä'.repeat(120)
+    const longLine = 'Courtyard canopy — Example Yard A: ' + 'ä'.repeat(120)
     const text = `Hello Åsa,\n\n${longLine}\nhttp://127.0.0.1:3210/invite/abc_DEF-123=\n`
-    await mailer.send({ to: 'asa@example.test', subject: 'Join “Quay Café” as reviewer', text, html: '<p>Hello <b>Åsa</b></p>' })
+    await mailer.send({ to: 'asa@example.test', subject: 'Join “Terrace sail” as reviewer', text, html: '<p>Hello <b>Åsa</b></p>' })
     mailer.close()
     const [m] = await mailbox.list()
     expect(m?.to).toBe('asa@example.test')
-    expect(m?.subject).toBe('Join “Quay Café” as reviewer')
+    expect(m?.subject).toBe('Join “Terrace sail” as reviewer')
     expect(m?.text).toBe(text)
     expect(m?.html).toBe('<p>Hello <b>Åsa</b></p>')
   })

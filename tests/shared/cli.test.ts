@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
+import { CAUTION, CAUTION_TITLE } from '../../shared/protocol'
 import { frameFile, squareLoop } from './frame-fixtures'
 
 const dir = mkdtempSync(join(tmpdir(), 'veilroom-cli-'))
@@ -44,5 +45,27 @@ describe('npm run solve', () => {
     expect(r.stdout).toMatch(/Surface settled/)
     expect(r.stdout).toMatch(/qualified engineer/)
     expect(readFileSync(out, 'utf8')).toMatch(/^# Veilroom surface/)
+  })
+
+  it('writes the caution into the JSON (a caution field) and the STL (the solid name); names cables as the workbench does', () => {
+    const sail = join(dir, 'cable-sail.json')
+    const file = frameFile(squareLoop(4, 0, 0, (i) => (i % 2 ? 1 : 0)), [], 0.5) as { loops: { edges?: unknown[] }[] }
+    file.loops[0]!.edges = [{ kind: 'rigid' }, { kind: 'cable', tension: 10 }, { kind: 'rigid' }, { kind: 'rigid' }]
+    writeFileSync(sail, JSON.stringify(file))
+    const json = join(dir, 'sail.json.out')
+    const r = solve(sail, '--out', json)
+    expect(r.stderr).toBe('')
+    expect(JSON.parse(readFileSync(json, 'utf8')).caution).toBe(CAUTION)
+    // edge index 1 of the outer loop is the second edge: "Outer E2" (shared/report/numbering.ts)
+    expect(r.stdout).toMatch(/^Cable Outer E2: length [\d.]+ m, prestress-state force [\d.]+ kN/m)
+    const stl = join(dir, 'sail.stl')
+    expect(solve(sail, '--out', stl, '--format', 'stl').status).toBe(0)
+    expect(readFileSync(stl, 'utf8').split('\n')[0]).toBe(`solid veilroom_surface ${CAUTION_TITLE}: ${CAUTION}`)
+  })
+
+  it('refuses an unknown option naming it (node:util parseArgs)', () => {
+    const r = solve('x.json', '--colour', 'red')
+    expect(r.status).toBe(1)
+    expect(r.stderr).toMatch(/--colour/)
   })
 })

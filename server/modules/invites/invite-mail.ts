@@ -1,12 +1,8 @@
-import type { RoomRole } from '../../db/entities/index.js'
+import { roleLabels, roleRights, type RoomRole } from '../../../shared/protocol/index.js'
 import type { OutgoingMail } from '../../mail/mailer.js'
 
-const roleWords: Record<RoomRole, string> = {
-  owner: 'owner (all rights, including members)',
-  editor: 'editor (shape the frame, save snapshots, pin comments)',
-  reviewer: 'reviewer (pin comments on the surface)',
-  viewer: 'viewer (look, read and download)',
-}
+// The same words the members list and the invite page show (shared/protocol/roles.ts).
+const roleWords = (role: RoomRole): string => `${roleLabels[role].toLowerCase()} (${roleRights[role]})`
 
 const escapeHtml = (s: string) =>
   s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c)
@@ -15,7 +11,7 @@ const escapeHtml = (s: string) =>
 export function inviteMail(p: { to: string; roomName: string; role: RoomRole; inviterName: string; link: string; expiresAt: Date }): OutgoingMail {
   const expires = p.expiresAt.toUTCString()
   const text = [
-    `${p.inviterName} invited you to the Veilroom room "${p.roomName}" as ${roleWords[p.role]}.`,
+    `${p.inviterName} invited you to the Veilroom room "${p.roomName}" as ${roleWords(p.role)}.`,
     '',
     'Open this link to join (sign in or create an account first):',
     p.link,
@@ -24,7 +20,7 @@ export function inviteMail(p: { to: string; roomName: string; role: RoomRole; in
     'If you did not expect this invite, ignore this e-mail.',
   ].join('\n')
   const html =
-    `<p>${escapeHtml(p.inviterName)} invited you to the Veilroom room “${escapeHtml(p.roomName)}” as ${escapeHtml(roleWords[p.role])}.</p>` +
+    `<p>${escapeHtml(p.inviterName)} invited you to the Veilroom room “${escapeHtml(p.roomName)}” as ${escapeHtml(roleWords(p.role))}.</p>` +
     `<p><a href="${escapeHtml(p.link)}">Join the room</a></p>` +
     `<p>The link works once and expires on ${escapeHtml(expires)}. If you did not expect this invite, ignore this e-mail.</p>`
   return { to: p.to, subject: `${p.inviterName} invited you to "${p.roomName}" on Veilroom`, text, html }

@@ -1,4 +1,5 @@
 import type { SnapshotFigures } from '../../api/team'
+import { cableName } from '../../../shared/report'
 
 /** Number with fixed decimals and a unit, "—" for a missing or non-finite value. */
 export function fmt(value: number | null | undefined, unit: string, decimals = 2): string {
@@ -17,7 +18,7 @@ export function figureRows(f: Readonly<SnapshotFigures>): { label: string; value
     { label: 'Flat share (ponding / flutter risk)', value: fmt(f.flatShare * 100, '%', 1) },
   ]
   for (const c of f.cables ?? []) {
-    rows.push({ label: `Cable loop ${c.loop + 1} edge ${c.edge + 1}`, value: `${fmt(c.length, 'm')}, ${fmt(c.force, 'kN', 1)}` })
+    rows.push({ label: `Cable ${cableName(c)} (length, prestress-state force)`, value: `${fmt(c.length, 'm')}, ${fmt(c.force, 'kN', 1)}` })
   }
   if (!f.cables && f.cableCount !== undefined) rows.push({ label: 'Cable edges', value: String(f.cableCount) })
   return rows

@@ -31,11 +31,14 @@ export const SLOPE_RAMP: readonly Stop[] = [
 /** Slopes at or above this (degrees) take the steep end of the slope ramp. */
 export const SLOPE_SPAN = 60
 
-/** Classes of the flat / ponding risk map, flattest first. */
+/**
+ * Slope classes of the prestress-state shape, flattest first. None is labelled safe: the shape
+ * under prestress alone says nothing about drainage once wind, snow or water load the membrane.
+ */
 export const FLAT_CLASSES = [
-  { key: 'flat', label: 'flat: ponding and flutter risk', hex: '#b4553d' },
-  { key: 'marginal', label: 'shallow: check drainage', hex: '#d8bf94' },
-  { key: 'drains', label: 'drains', hex: '#4f7a52' },
+  { key: 'flat', label: 'flat (prestress state): ponding and flutter risk', hex: '#b4553d' },
+  { key: 'marginal', label: 'shallow (prestress state): check drainage', hex: '#d8bf94' },
+  { key: 'sloped', label: 'sloped (prestress state): drainage under load still to be checked', hex: '#4f7a52' },
 ] as const
 
 /** sRGB hex ('#rrggbb') to sRGB components 0..1. */
