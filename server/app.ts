@@ -27,6 +27,8 @@ export interface AppDeps {
   live?: LiveRoomPort
   /** The express app to configure (main.ts hands in the one its http server already serves). */
   app?: Express
+  /** State of the Redis link in scale-out (REDIS_URL); absent in one process. */
+  redisState?: () => 'up' | 'down'
 }
 
 /** express-session, passport and the auth service: what both the routes and the sockets need. */
@@ -66,6 +68,7 @@ export function createApp({
   web = createWebSession(config, dataSource),
   live = offlineLiveRoom(),
   app = express(),
+  redisState,
 }: AppDeps): AppBundle {
   app.disable('x-powered-by')
   // Behind a TLS-terminating proxy on this machine, so secure cookies and req.ip work.
@@ -99,13 +102,17 @@ export function createApp({
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))
   // Before the session, which itself needs the database.
+  // The proxy's health check in scale-out names the instance and its links.
   api.get('/health', async (_req, res) => {
-    try {
-      await dataSource.query('SELECT 1')
-      res.json({ ok: true, db: 'up' })
-    } catch {
-      res.status(503).json({ ok: false, db: 'down' })
-    }
+    const db = await dataSource.query('SELECT 1').then(
+      () => 'up' as const,
+      () => 'down' as const,
+    )
+    const redis = redisState ? redisState() : 'off'
+    const ok = db === 'up' && redis !== 'down'
+    // 503 only without the database: with Redis down an instance still serves its own clients and
+    // the API, and taking every instance out of the proxy at once would turn a pause into an outage.
+    res.status(db === 'up' ? 200 : 503).json({ ok, db, redis, instance: config.INSTANCE_ID })
   })
   api.use(web.sessionMiddleware, passport.initialize(), passportSession)
   api.use(csrfSynchronisedProtection)

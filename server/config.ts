@@ -1,3 +1,4 @@
+import { hostname } from 'node:os'
 import { z } from 'zod'
 
 // Read once at start. A wrong value stops the server with the variable's name and the reason,
@@ -19,13 +20,24 @@ const schema = z
     LOG_LEVEL: z.enum(['debug', 'info', 'warn', 'error', 'silent']).default('info'),
     // worker threads that solve surfaces; one per core keeps the event loop free on this 2-core class
     SOLVE_WORKERS: z.coerce.number().int().min(1, 'at least 1').max(64, 'at most 64').default(2),
+    // scale-out: unset = one process, no Redis (npm start); set = this instance shares rooms over Redis
+    REDIS_URL: z
+      .url()
+      .refine((u) => /^rediss?:\/\//.test(u), 'must start with redis:// or rediss://')
+      .optional(),
+    // a stable name for this instance in /api/health and logs; defaults to host:port
+    INSTANCE_ID: z.string().regex(/^[A-Za-z0-9_.:-]{1,64}$/, 'letters, digits, _ . : - only (1–64)').optional(),
   })
   .transform((env, ctx) => {
     if (!env.SESSION_SECRET && env.NODE_ENV === 'production') {
       ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'required when NODE_ENV=production' })
       return z.NEVER
     }
-    return { ...env, SESSION_SECRET: env.SESSION_SECRET ?? 'veilroom-development-secret-not-for-production' }
+    return {
+      ...env,
+      SESSION_SECRET: env.SESSION_SECRET ?? 'veilroom-development-secret-not-for-production',
+      INSTANCE_ID: env.INSTANCE_ID ?? `${hostname()}:${env.PORT}`,
+    }
   })
 
 export type Config = z.output<typeof schema>

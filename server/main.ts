@@ -11,6 +11,7 @@ import { logger, setLogLevel } from './lib/logger.js'
 import { installProcessGuards } from './lib/process-guards.js'
 import type { LiveRoomPort } from './live-room-port/index.js'
 import { attachRealtime, type Realtime, type RealtimeDeps } from './realtime/index.js'
+import { connectScale } from './scale/index.js'
 
 export interface StartOptions {
   /** 0 picks a free port (tests). Defaults to config.PORT. */
@@ -56,8 +57,11 @@ export async function start(options: StartOptions = {}): Promise<Running> {
   const app = express()
   const server = createServer(app)
   const web = createWebSession(config, dataSource)
-  const realtime = attachRealtime(server, { ...web, dataSource, config, tuning: options.tuning })
-  const bundle = createApp({ config, dataSource, web, app, live: options.live ? options.live(realtime) : realtime })
+  // Scale-out only when asked for: without REDIS_URL this stays one process with no Redis.
+  const scale = config.REDIS_URL ? connectScale(config.REDIS_URL, config.INSTANCE_ID) : undefined
+  const realtime = attachRealtime(server, { ...web, dataSource, config, tuning: options.tuning, scale })
+  const live = options.live ? options.live(realtime) : realtime
+  const bundle = createApp({ config, dataSource, web, app, live, redisState: scale?.state })
   if (demoRooms) {
     await realtime.ensureRoomFrame(demoRooms.courtyard, 'tent')
     await realtime.ensureRoomFrame(demoRooms['shade-sail'], 'sail')
@@ -83,12 +87,13 @@ export async function start(options: StartOptions = {}): Promise<Running> {
       server.closeAllConnections()
       await new Promise<void>((resolve) => server.close(() => resolve()))
       await bundle.close()
+      await scale?.close()
       await dataSource.destroy()
       if (current === running) current = null
     },
   }
   current = running
-  logger.info(`Veilroom server listening on ${url}`)
+  logger.info(`Veilroom server listening on ${url}`, scale ? { instance: config.INSTANCE_ID, redis: 'shared rooms' } : undefined)
   return running
 }
 

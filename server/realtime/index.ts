@@ -16,6 +16,10 @@ import type { LiveRoomPort } from '../live-room-port/index.js'
 import { SolvePool } from './solve-pool.js'
 import { attachSurfaceStream, createStreamServer, roomEmitter } from './surface-stream.js'
 import { attachSyncEndpoint } from './sync-endpoint.js'
+import { createAdapter } from '@socket.io/redis-adapter'
+import type { ScaleLink } from '../scale/index.js'
+import { attachDocBus } from '../scale/doc-bus.js'
+import { createClusterSolveLoop } from '../scale/solve-producer.js'
 
 export interface RealtimeDeps {
   sessionMiddleware: RequestHandler
@@ -23,6 +27,8 @@ export interface RealtimeDeps {
   passportSession: RequestHandler
   dataSource: DataSource
   config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV' | 'HOST'> & Partial<Pick<Config, 'SOLVE_WORKERS'>>
+  /** Redis link when scale-out is on (REDIS_URL): rooms, events and solves are shared with other instances. */
+  scale?: ScaleLink
   /** Overrides for tests and the benchmark. */
   tuning?: RoomDocsOptions & { workers?: number; staleMs?: number; coarseAbove?: number }
 }
@@ -62,16 +68,46 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
     return own
   }
 
-  const rooms = new RoomDocs(deps.dataSource, tuning)
-  const pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
-  // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
-  // server, not for each of the many short-lived test servers, which start workers on first use.
-  if (config.NODE_ENV !== 'test') pool.warmUp()
+  const { scale } = deps
+  const rooms = new RoomDocs(deps.dataSource, { ...tuning, shared: scale !== undefined })
   // socket.io first, then the loop that emits through it, then the room handlers that read the loop.
-  const io = createStreamServer(httpServer, { access, origins })
-  const loop = createSolveLoop({ rooms, pool, emit: roomEmitter(io), staleMs: tuning.staleMs, coarseAbove: tuning.coarseAbove })
+  const adapter = scale ? createAdapter(scale.redis, scale.subscriber('socket.io')) : undefined
+  const io = createStreamServer(httpServer, { access, origins, adapter })
+  let pool: SolvePool | null = null
+  let loop: SolveLoop
+  // In scale-out, solves are BullMQ jobs for `npm run worker` processes (server/scale).
+  const cluster = scale ? createClusterSolveLoop({ rooms, redis: scale.redis, emit: roomEmitter(io) }) : null
+  if (cluster) loop = cluster
+  else {
+    pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
+    // Booting a worker costs a few seconds of CPU (TypeScript loader + a warm-up solve): worth it for a
+    // server, not for each of the many short-lived test servers, which start workers on first use.
+    if (config.NODE_ENV !== 'test') pool.warmUp()
+    loop = createSolveLoop({
+      rooms,
+      pool,
+      emit: roomEmitter(io),
+      staleMs: tuning.staleMs,
+      coarseAbove: tuning.coarseAbove,
+    })
+  }
   const stream = attachSurfaceStream(io, { rooms, access, latest: loop.latest })
   const sync = attachSyncEndpoint(httpServer, { rooms, access, origins })
+  const closeLocal = (roomId?: string, userId?: string) => {
+    sync.closeWhere(roomId, userId)
+    stream.closeWhere(roomId, userId)
+  }
+  const bus = scale
+    ? attachDocBus({
+        rooms,
+        dataSource: deps.dataSource,
+        pub: scale.redis,
+        sub: scale.subscriber('rooms'),
+        instanceId: scale.instanceId,
+        closeLocal,
+        onReconnect: () => cluster?.resubmitAll(),
+      })
+    : null
 
   return {
     rooms,
@@ -81,7 +117,8 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
       const room = await rooms.acquire(roomId)
       try {
         const read = readRoomFrame(room.doc)
-        if (read.kind === 'invalid') return { frame: null, version: room.version, invalid: { path: read.path, message: read.message } }
+        if (read.kind === 'invalid')
+          return { frame: null, version: room.version, invalid: { path: read.path, message: read.message } }
         return { frame: read.kind === 'frame' ? read.frame : null, version: room.version }
       } finally {
         await rooms.release(room)
@@ -96,16 +133,14 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
       }
     },
     emitToRoom: (roomId, event, payload) => stream.emit(roomId, event, payload),
-    closeRoomSockets: (roomId, userId) => {
-      sync.closeWhere(roomId, userId)
-      stream.closeWhere(roomId, userId)
-    },
+    closeRoomSockets: (roomId, userId) => (bus ? bus.closeWhere(roomId, userId) : closeLocal(roomId, userId)),
     close: async () => {
       // socket.io first: the sync endpoint's close then destroys every upgraded socket, both kinds.
       await stream.close()
       await sync.close()
       loop.close()
-      await pool.close()
+      bus?.close()
+      await pool?.close()
       await rooms.close()
     },
   }

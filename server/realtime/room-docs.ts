@@ -12,14 +12,27 @@ import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { writeFrame } from '../../shared/room-doc/schema.js'
 import { starterFrame, type StarterKey } from '../../shared/room-doc/starters.js'
 import { logger } from '../lib/logger.js'
-import { appendUpdates, loadStoredRoom, storeCompacted } from './room-store.js'
+import { appendUpdates, loadStoredRoom, storeCompacted, storeCompactedShared } from './room-store.js'
 
 /** Transaction origin of the load; those updates are already stored. */
 const LOAD = Symbol('load')
 /** Transaction origin of a starting frame written by the server. */
 export const SEED = Symbol('seed')
 
-export type RelayListener = (update: Uint8Array, origin: unknown, version: number) => void
+/**
+ * Transaction origin of an update another instance accepted and stored (scale-out): applied and
+ * relayed here, never stored again. `ids` are its room_updates rows, which this instance's
+ * compaction may then fold in.
+ */
+export class RemoteOrigin {
+  constructor(
+    readonly version: number,
+    readonly ids: readonly number[],
+  ) {}
+}
+
+/** `id` is the update's room_updates row when this instance stored it. */
+export type RelayListener = (update: Uint8Array, origin: unknown, version: number, id?: number) => void
 
 /** One loaded room: its document, presence, version counter and persistence queue. */
 export class LiveRoom {
@@ -32,6 +45,8 @@ export class LiveRoom {
   chain: Promise<void> = Promise.resolve()
   sinceCompact = 0
   lastUpdateId = 0
+  /** room_updates rows this document contains (stored here, loaded, or relayed by another instance). */
+  knownIds: number[] = []
   /** True when this load found no document and wrote a starting frame. */
   seeded = false
   idleTimer: NodeJS.Timeout | undefined
@@ -59,6 +74,11 @@ export class LiveRoom {
 export interface RoomDocsOptions {
   compactEvery?: number
   idleMs?: number
+  /**
+   * Other instances edit the same rooms (scale-out): compaction merges the stored state first and
+   * deletes only the update rows this document is known to contain.
+   */
+  shared?: boolean
 }
 
 export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoom] }> {
@@ -66,6 +86,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   private readonly loaded = new Map<string, LiveRoom>()
   private readonly compactEvery: number
   private readonly idleMs: number
+  private readonly shared: boolean
   private closed = false
 
   constructor(
@@ -75,6 +96,21 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     super()
     this.compactEvery = options.compactEvery ?? 200
     this.idleMs = options.idleMs ?? 10_000
+    this.shared = options.shared ?? false
+  }
+
+  /**
+   * Applies an update another instance stored (or a reload of the stored room after a Redis outage).
+   * Yjs skips what the document already holds, so a duplicate changes nothing and is not relayed.
+   */
+  applyRemote(room: LiveRoom, update: Uint8Array, version: number, ids: readonly number[]): void {
+    try {
+      Y.applyUpdate(room.doc, update, new RemoteOrigin(version, ids))
+      room.knownIds.push(...ids)
+      room.version = Math.max(room.version, version)
+    } catch (err) {
+      logger.warn('realtime: an update from another instance did not apply', { roomId: room.roomId, err: String(err) })
+    }
   }
 
   /** The loaded room, if any (no load is started). */
@@ -176,6 +212,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     )
     room.version = stored.version
     room.lastUpdateId = stored.lastUpdateId
+    room.knownIds = [...stored.ids]
     room.sinceCompact = stored.updates.length
     room.doc.on('update', (update: Uint8Array, origin: unknown) => {
       if (origin !== LOAD) this.accepted(room, update, origin)
@@ -190,6 +227,14 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   }
 
   private accepted(room: LiveRoom, update: Uint8Array, origin: unknown): void {
+    if (origin instanceof RemoteOrigin) {
+      // Stored by the instance that accepted it; relayed in order with this room's own updates.
+      const version = (room.version = Math.max(room.version + 1, origin.version))
+      void this.enqueue(room, async () => {
+        for (const relay of room.relays) relay(update, origin, version)
+      })
+      return
+    }
     room.version++
     room.sinceCompact++
     room.unstored.push({ update, origin, version: room.version })
@@ -204,14 +249,20 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   private async storeAndRelay(room: LiveRoom): Promise<void> {
     const batch = room.unstored
     room.unstored = []
+    let lastId: number | undefined
     try {
-      room.lastUpdateId = await appendUpdates(this.ds, room.roomId, batch)
+      lastId = room.lastUpdateId = await appendUpdates(this.ds, room.roomId, batch)
+      // One multi-row insert takes consecutive ids (room-store.ts appendUpdates).
+      for (let i = batch.length - 1; i >= 0; i--) room.knownIds.push(lastId - i)
     } catch (err) {
       // Fall back to writing the whole state; relay either way so peers do not drift apart.
       logger.error('realtime: storing updates failed', { roomId: room.roomId, err: String(err) })
       await this.compact(room)
     }
-    for (const { update, origin, version } of batch) for (const relay of room.relays) relay(update, origin, version)
+    batch.forEach(({ update, origin, version }, i) => {
+      const id = lastId === undefined ? undefined : lastId - (batch.length - 1 - i)
+      for (const relay of room.relays) relay(update, origin, version, id)
+    })
     if (room.sinceCompact >= this.compactEvery) await this.compact(room)
   }
 
@@ -230,12 +281,28 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     if (room.sinceCompact === 0 && room.lastUpdateId === 0) return
     try {
       const folded = room.sinceCompact
-      await storeCompacted(this.ds, room.roomId, Y.encodeStateAsUpdate(room.doc), room.version, room.lastUpdateId)
+      if (this.shared) {
+        const ids = room.knownIds
+        room.knownIds = []
+        await storeCompactedShared(this.ds, room.roomId, (stored) => this.mergeStored(room, stored), room.version, ids).catch((err: unknown) => {
+          room.knownIds.push(...ids)
+          throw err
+        })
+      } else {
+        await storeCompacted(this.ds, room.roomId, Y.encodeStateAsUpdate(room.doc), room.version, room.lastUpdateId)
+        room.knownIds = []
+      }
       room.sinceCompact -= folded
       room.lastUpdateId = 0
     } catch (err) {
       logger.error('realtime: compacting a room document failed', { roomId: room.roomId, err: String(err) })
     }
+  }
+
+  /** The stored state another instance compacted may hold what this one has not seen yet. */
+  private mergeStored(room: LiveRoom, stored: Buffer | null): Uint8Array {
+    if (stored) this.applyRemote(room, stored, 0, [])
+    return Y.encodeStateAsUpdate(room.doc)
   }
 
   private dispose(room: LiveRoom): void {

@@ -14,6 +14,8 @@ export interface StoredRoom {
   updates: Buffer[]
   /** Id of the newest pending row (compaction deletes up to it), or 0. */
   lastUpdateId: number
+  /** Ids of the pending rows, oldest first. */
+  ids: number[]
 }
 
 interface StateRow {
@@ -38,6 +40,7 @@ export async function loadStoredRoom(ds: DataSource, roomId: string): Promise<St
     version: Math.max(head ? Number(head.version) : 0, last ? Number(last.version) : 0),
     updates: rows.map((r) => r.update),
     lastUpdateId: last ? Number(last.id) : 0,
+    ids: rows.map((r) => Number(r.id)),
   }
 }
 
@@ -81,4 +84,39 @@ async function compactOnce(ds: DataSource, roomId: string, state: Uint8Array, ve
     )
     if (upToId > 0) await em.query('DELETE FROM `room_updates` WHERE `room_id` = ? AND `id` <= ?', [roomId, upToId])
   })
+}
+
+/**
+ * Compaction when several instances hold the room (scale-out): the stored state is read under a
+ * row lock and handed to `merge`, which folds it into the live document and returns the state to
+ * write; only the update rows listed in `ids` (those the document is known to contain) are deleted.
+ * Rows another instance stored meanwhile stay and are re-applied on load (yjs ignores duplicates).
+ */
+export async function storeCompactedShared(
+  ds: DataSource,
+  roomId: string,
+  merge: (stored: Buffer | null) => Uint8Array,
+  version: number,
+  ids: readonly number[],
+): Promise<void> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await ds.transaction('READ COMMITTED', async (em) => {
+        const rows = (await em.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ? FOR UPDATE', [roomId])) as StateRow[]
+        const state = merge(rows[0]?.state ?? null)
+        const newest = Math.max(version, rows[0] ? Number(rows[0].version) : 0)
+        await em.query(
+          'INSERT INTO `room_documents` (`room_id`, `state`, `version`, `updated_at`) VALUES (?, ?, ?, NOW(3)) ' +
+            'ON DUPLICATE KEY UPDATE `state` = VALUES(`state`), `version` = VALUES(`version`), `updated_at` = NOW(3)',
+          [roomId, Buffer.from(state.buffer, state.byteOffset, state.byteLength), newest],
+        )
+        for (let i = 0; i < ids.length; i += 500) {
+          const chunk = ids.slice(i, i + 500)
+          await em.query(`DELETE FROM \`room_updates\` WHERE \`room_id\` = ? AND \`id\` IN (${chunk.map(() => '?').join(', ')})`, [roomId, ...chunk])
+        }
+      })
+    } catch (err) {
+      if (attempt >= 3 || (err as { driverError?: { errno?: number } }).driverError?.errno !== 1213) throw err
+    }
+  }
 }

@@ -26,7 +26,7 @@ import type { SolveHandle, SolvePool } from './solve-pool.js'
 import type { RoomEmit } from '../live-room-port/index.js'
 
 /** Vertex count a coarse preview aims at. */
-const COARSE_VERTICES = 2000
+export const COARSE_VERTICES = 2000
 
 type LoopEvent = 'surface' | 'solve:state' | 'solve:progress' | 'pattern'
 
@@ -52,7 +52,7 @@ interface Watch {
 
 export interface SolveLoop {
   /** What a client joining the room is sent first: the last surface and solve state. */
-  latest: (roomId: string) => LatestEvent[]
+  latest: (roomId: string) => LatestEvent[] | Promise<LatestEvent[]>
   /**
    * The last settled surface of a loaded room, after waiting (up to `ms`) for the outcome of the
    * solve of its current version; null when nothing ever settled.

@@ -4,7 +4,7 @@
  * document (so the room is solved while someone watches); the latest surface is sent on join.
  */
 import type { Server as HttpServer } from 'node:http'
-import { Server, type Socket } from 'socket.io'
+import { Server, type ServerOptions, type Socket } from 'socket.io'
 import {
   can,
   roomRefSchema,
@@ -26,7 +26,7 @@ export interface SurfaceStreamOptions {
   rooms: RoomDocs
   access: AccessDeps
   /** The last surface (and solve state) of a room, sent to a client that joins. */
-  latest: (roomId: string) => LatestEvent[]
+  latest: (roomId: string) => LatestEvent[] | Promise<LatestEvent[]>
 }
 
 export interface SurfaceStream {
@@ -44,12 +44,21 @@ export const channel = (roomId: string): string => `room:${roomId}`
  * The socket.io server on the app's http server, admitting signed-in users only. Made before the
  * solve loop (which emits through it) and before its room handlers (which read the loop's latest).
  */
-export function createStreamServer(httpServer: HttpServer, opts: { access: AccessDeps; origins: () => Set<string> }): StreamServer {
+export function createStreamServer(
+  httpServer: HttpServer,
+  opts: {
+    access: AccessDeps
+    origins: () => Set<string>
+    /** socket.io adapter factory (the Redis adapter in scale-out), so room events reach every instance. */
+    adapter?: ServerOptions['adapter']
+  },
+): StreamServer {
   const io: StreamServer = new Server(httpServer, {
     // The /sync upgrade belongs to the CRDT endpoint; by default socket.io would destroy it after 1 s.
     destroyUpgrade: false,
     maxHttpBufferSize: 64 * 1024,
     serveClient: false,
+    ...(opts.adapter ? { adapter: opts.adapter } : {}),
     // Same-origin polling requests carry no Origin header; a foreign Origin is refused.
     allowRequest: (req, callback) => {
       const origin = req.headers.origin
@@ -101,7 +110,7 @@ export function attachSurfaceStream(io: StreamServer, opts: SurfaceStreamOptions
         }
         await socket.join(channel(roomId))
         reply({ ok: true, role })
-        for (const latest of opts.latest(roomId)) {
+        for (const latest of await opts.latest(roomId)) {
           if (latest.event === 'surface') socket.emit('surface', latest.payload)
           else if (latest.event === 'pattern') socket.emit('pattern', latest.payload)
           else socket.emit('solve:state', latest.payload)

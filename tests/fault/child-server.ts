@@ -43,7 +43,7 @@ export function testEnv(extra: Record<string, string> = {}): NodeJS.ProcessEnv {
  * Starts the server on `port` (0 = any) and waits until it listens. Node itself with tsx's loader,
  * not the tsx binary: tsx runs the script in a grandchild, which a SIGKILL of tsx would orphan.
  */
-export function startChild(env: NodeJS.ProcessEnv, port = 0): Promise<Child> {
+export function startChild(env: NodeJS.ProcessEnv, port = 0, timeoutMs = 60_000): Promise<Child> {
   return new Promise((done, reject) => {
     const child = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
       cwd: root,
@@ -51,7 +51,7 @@ export function startChild(env: NodeJS.ProcessEnv, port = 0): Promise<Child> {
       stdio: ['ignore', 'pipe', 'inherit'],
     })
     let out = ''
-    const timer = setTimeout(() => (child.kill('SIGKILL'), reject(new Error('server did not listen within 60 s'))), 60_000)
+    const timer = setTimeout(() => (child.kill('SIGKILL'), reject(new Error(`server did not listen within ${timeoutMs / 1000} s`))), timeoutMs)
     const onData = (chunk: Buffer) => {
       out += chunk.toString()
       const match = /listening on (http:\/\/\S+)/.exec(out)

@@ -64,7 +64,7 @@ describe('health', () => {
       await dataSource.destroy()
       const down = await fetch(app.url + '/api/health')
       expect(down.status).toBe(503)
-      expect(await down.json()).toEqual({ ok: false, db: 'down' })
+      expect(await down.json()).toMatchObject({ ok: false, db: 'down', redis: 'off' })
     } finally {
       await app.close()
     }
