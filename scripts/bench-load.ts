@@ -32,6 +32,8 @@ const STEP_TIMEOUT_S = Number(process.env.BENCH_STEP_TIMEOUT ?? 120 + SECONDS)
 
 interface Job {
   url: string
+  /** Editor k of a room connects to urls[k % urls.length] when given (bench-scale: editors spread over instances). */
+  urls?: string[]
   rooms: { roomId: string; cookies: string[] }[]
 }
 interface ClientResult {
@@ -214,8 +216,8 @@ async function runClients(job: Job): Promise<ClientResult> {
   const timers: NodeJS.Timeout[] = []
   const starts: (() => void)[] = []
   for (const { roomId, cookies } of job.rooms) {
-    const clients = cookies.map((cookie) => {
-      const client = connectDoc(job.url, roomId, cookie)
+    const clients = cookies.map((cookie, k) => {
+      const client = connectDoc(job.urls?.[k % job.urls.length] ?? job.url, roomId, cookie)
       teardown.push(client.destroy)
       return client
     })
