@@ -12,6 +12,8 @@ export interface Column {
   unit?: string
   /** Decimals for numbers in this column (default 2); 'exp' writes 3 significant digits as 1.23e-8. */
   digits?: number | 'exp'
+  /** Free text (comments, replies): may break anywhere and takes the room left by the other columns. */
+  text?: boolean
 }
 
 export interface ReportTable {

@@ -148,7 +148,7 @@ function pinsTable({ pins }: ReportInput): ReportTable {
   const m = { unit: 'm', digits: 2 }
   return {
     key: 'pins', title: 'Open pins', note: 'Numbered as marked on the plan, oldest first.',
-    columns: [{ label: 'Pin' }, { label: 'x', ...m }, { label: 'y', ...m }, { label: 'z', ...m }, { label: 'Author' }, { label: 'Date' }, { label: 'Comment' }, { label: 'Replies' }],
+    columns: [{ label: 'Pin' }, { label: 'x', ...m }, { label: 'y', ...m }, { label: 'z', ...m }, { label: 'Author', text: true }, { label: 'Date' }, { label: 'Comment', text: true }, { label: 'Replies', text: true }],
     rows: pins.map((p, i) => [
       `${i + 1}`, p.x, p.y, p.z, p.author?.name ?? FORMER, utcMinute(p.createdAt), p.body,
       p.replies.map((r) => `${r.author?.name ?? FORMER} (${utcMinute(r.createdAt)}): ${r.body}`).join('\n') || null,
