@@ -85,6 +85,10 @@ try {
         if (!existsSync('/usr/bin/chromium')) {
           if ((await run('apt-get', ['update'])) || (await run('apt-get', ['install', '-y', 'chromium']))) return 1
         }
+        // The report test reads its printed PDFs back with pdftotext (Debian's poppler-utils).
+        if (!existsSync('/usr/bin/pdftotext')) {
+          if ((await run('apt-get', ['update'])) || (await run('apt-get', ['install', '-y', 'poppler-utils']))) return 1
+        }
         if (clientBuildIsStale() && (await run('vite', ['build']))) return 1
         // Invite mail goes to a fake SMTP server on a free port, read back through /api/dev/mailbox.
         smtp = await startFakeSmtpChild({ ...env, SMTP_PORT: '0' })

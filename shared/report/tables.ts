@@ -3,6 +3,7 @@
  * inputs, frame points, frame edges, forces at frame points, figures, ponding pockets, pins.
  * Units: m, kN, kN/m, degrees. Numbering: numbering.ts (1-based, loop name + P/E number).
  */
+import { reasonWords } from '../protocol/solver-reasons'
 import type { Figures, FrameLoop, SolverReport } from '../types'
 import { edgeName, loopNames, pointName } from './numbering'
 import type { ReportTable } from './table'
@@ -56,7 +57,7 @@ function inputsTable({ frame, solver, figures }: ReportInput, loops: string[]): 
     ['Solver method', solver.method, ''],
     ['Solver iterations', String(solver.iterations), ''],
     ['Solver residual (normalised)', solver.residual.toExponential(2), ''],
-    ['Solver state', solver.converged ? 'settled' : `unsettled${solver.reason ? ` (${solver.reason})` : ''}`, ''],
+    ['Solver state', solver.converged ? 'settled' : `unsettled: ${reasonWords(solver.reason)}`, ''],
     ['Flat threshold', fixed(figures.flatThreshold, 1), '°'],
   )
   return { key: 'inputs', title: 'Inputs', columns: [{ label: 'Input' }, { label: 'Value' }, { label: 'Unit' }], rows }

@@ -156,7 +156,7 @@ describe('printed report (issue 15)', () => {
         expect(pinPage).toMatch(/^\s*\d+\s+1\.00\s+1\.00\s+1\.00\s+Imogen\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC/m)
         expect(pinPage).toContain(replyToken)
       }
-    })
+    }, 180_000)
   }
 
   it('prints the current settled state marked unsaved', async () => {
@@ -169,5 +169,5 @@ describe('printed report (issue 15)', () => {
     checkPages(A4, room.name)
     expect(A4[0]!.text).toMatch(/current state, unsaved/)
     expect(A4.map((p) => p.text).join('\n')).toMatch(/Outer P1\s+-?\d+\.\d{3}/)
-  })
+  }, 120_000)
 })
