@@ -58,9 +58,15 @@ function inputsTable({ frame, solver, figures }: ReportInput, loops: string[]): 
     ['Solver iterations', String(solver.iterations), ''],
     ['Solver residual (normalised)', solver.residual.toExponential(2), ''],
     ['Solver state', solver.converged ? 'settled' : `unsettled: ${reasonWords(solver.reason)}`, ''],
-    ['Flat threshold', fixed(figures.flatThreshold, 1), '°'],
   )
-  return { key: 'inputs', title: 'Inputs', columns: [{ label: 'Input' }, { label: 'Value' }, { label: 'Unit' }], rows }
+  if (solver.stressDeviation) {
+    rows.push(
+      ['Settled stress off warp/fill, largest (face)', fixed(solver.stressDeviation.max, 1), '%'],
+      ['Settled stress off warp/fill, RMS (area-weighted)', fixed(solver.stressDeviation.rms, 1), '%'],
+    )
+  }
+  rows.push(['Flat threshold', fixed(figures.flatThreshold, 1), '°'])
+  return { key: 'inputs', title: 'Inputs and solver', columns: [{ label: 'Input' }, { label: 'Value' }, { label: 'Unit' }], rows }
 }
 
 function pointsTable({ frame }: ReportInput, loops: string[]): ReportTable {

@@ -74,8 +74,11 @@ describe('report tables', () => {
     // a snapshot saved before frames carried a warp direction shows none rather than a guess
     const older = reportTables({ ...input, frame: { ...input.frame, prestress: { warp: 3, fill: 3 } } })
     expect(table(older, 'inputs').rows.some((r) => String(r[0]).startsWith('Warp direction'))).toBe(false)
-    const angled = reportTables({ ...input, frame: { ...input.frame, prestress: { warp: 4, fill: 2, warpAngle: 30 } } })
-    expect(table(angled, 'inputs').rows.map((r) => r.join(' '))).toContain('Warp direction in plan (counter-clockwise from +x) 30.0 °')
+    const angled = reportTables({ ...input, frame: { ...input.frame, prestress: { warp: 4, fill: 2, warpAngle: 30 } }, solver: { ...solver, stressDeviation: { max: 3.25, rms: 1.04 } } })
+    const angledRows = table(angled, 'inputs').rows.map((r) => r.join(' '))
+    expect(angledRows).toContain('Warp direction in plan (counter-clockwise from +x) 30.0 °')
+    expect(angledRows).toContain('Settled stress off warp/fill, largest (face) 3.3 %')
+    expect(angledRows).toContain('Settled stress off warp/fill, RMS (area-weighted) 1.0 %')
   })
 
   it('numbers open pins oldest first with author, date, text and replies', () => {
