@@ -1,4 +1,3 @@
-import 'reflect-metadata'
 import { createServer, type Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import type { DataSource } from 'typeorm'

@@ -179,8 +179,8 @@ describe('live room: two editors and a reviewer', () => {
       expect(shown).toBeGreaterThan(0.05)
       await openRoomTab(page, 'settings')
       await page.getByTestId('underlay-visible').click()
-      await page.waitForTimeout(300)
-      expect(await pixelShare(page, await canvas.screenshot(), 'red')).toBeLessThan(0.001)
+      // polled: the red goes once a frame is drawn after the toggle (no guessed sleep)
+      await expect.poll(async () => pixelShare(page, await canvas.screenshot(), 'red'), { timeout: 10_000 }).toBeLessThan(0.001)
     } finally {
       await page.evaluate(async (roomId) => {
         const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }

@@ -177,9 +177,9 @@ describe('team work: invite, pins, snapshots', () => {
     await page.getByTestId('compare-snapshots').click()
     await page.waitForURL(/\/compare\?a=.+&b=.+/)
     await page.getByTestId('figure-diff').waitFor()
-    await page.waitForTimeout(500)
-    expect(await paintedShare(page, 'compare-a')).toBeGreaterThan(0.02)
-    expect(await paintedShare(page, 'compare-b')).toBeGreaterThan(0.02)
+    // polled until drawn (the surfaces load after the page), not a guessed sleep
+    await expect.poll(() => paintedShare(page, 'compare-a'), { timeout: 15_000 }).toBeGreaterThan(0.02)
+    await expect.poll(() => paintedShare(page, 'compare-b'), { timeout: 15_000 }).toBeGreaterThan(0.02)
     // Both snapshots hold the same settled surface: every difference is zero.
     const areaDiff = await page.locator('[data-key=area] td').nth(2).textContent()
     expect(areaDiff?.trim()).toBe('0.00 m²')

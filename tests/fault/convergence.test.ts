@@ -55,13 +55,16 @@ function mulberry32(seed: number): () => number {
 
 describe('offline client', () => {
   it('keeps its offline edits and the peers’ edits, merged on reconnect', async () => {
-    const { docs } = await openRoom(2)
+    const { roomId, docs } = await openRoom(2)
     const [a, b] = docs as [DocClient, DocClient]
     a.provider.disconnect()
     movePoint(a.doc, outerId(a.doc), 'b1', { z: 0.31 })
     const offline = insertPointAfter(a.doc, outerId(a.doc), 'b2', { x: 6.5, y: 3, z: 0.2 })!
     movePoint(b.doc, outerId(b.doc), 'b3', { z: 0.62 })
-    await new Promise((r) => setTimeout(r, 300))
+    // b's later edit has reached the server: the relay works, so a's edit would be there by now
+    // had it left the offline client.
+    await until(() => frameJson(live.realtime.rooms.peek(roomId)!.doc).includes('0.62'), 10_000, "b's edit on the server")
+    expect(frameJson(live.realtime.rooms.peek(roomId)!.doc)).not.toContain('0.31')
     expect(frameJson(b.doc)).not.toContain('0.31')
     a.provider.connect()
     await until(() => frameJson(a.doc) === frameJson(b.doc), 10_000, 'merge on reconnect')

@@ -55,8 +55,11 @@ describe('SolvePool', () => {
     expect(result(await pool.solve('room-a', square(0.5, 1)).done).worker).toBe(a.worker)
     // Keep room A's worker busy with a slow job of room C (it goes to A's worker: both workers are
     // home to one room, ties go to the lower index, which is A's as A was placed first).
-    const slow = pool.solve('room-c', square(0.06, 2.5))
-    await new Promise((r) => setTimeout(r, 50))
+    // Its first progress report proves it is running on a worker (not still queued).
+    let started!: () => void
+    const running = new Promise<void>((r) => (started = r))
+    const slow = pool.solve('room-c', square(0.06, 2.5), { onProgress: () => started() })
+    await running
     const moved = result(await pool.solve('room-a', square(0.5, 1.1)).done)
     expect(moved.worker).toBe(b.worker)
     slow.cancel()

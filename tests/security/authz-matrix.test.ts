@@ -222,12 +222,15 @@ describe('socket.io events × callers', () => {
       })
       if (connected !== 'connected') return { join: `refused: ${connected}`, leave: 'refused' }
       const ack = (await socket.timeout(10_000).emitWithAck('room:join', { roomId })) as { ok: boolean; role?: string; error?: { code: string } }
+      // A round trip on the same connection: its answer is queued after anything the server sent or
+      // processed before it, so "nothing arrived" is a fact once it is back (no sleeping and hoping).
+      const roundTrip = () => socket.timeout(10_000).emitWithAck('room:join', { roomId: 'not-a-room' })
       live.realtime.emitToRoom(roomId, 'pin:deleted', { roomId, pinId: 'probe1' })
-      await new Promise((r) => setTimeout(r, 150))
+      await roundTrip()
       socket.emit('room:leave', { roomId })
-      await new Promise((r) => setTimeout(r, 150))
+      await roundTrip()
       live.realtime.emitToRoom(roomId, 'pin:deleted', { roomId, pinId: 'probe2' })
-      await new Promise((r) => setTimeout(r, 150))
+      await roundTrip()
       return { join: ack.ok ? `ok as ${ack.role}` : `refused: ${ack.error?.code}`, leave: seen.join(',') || 'none' }
     } finally {
       socket.close()

@@ -5,12 +5,14 @@
  * another room still relays edits, and the server's heap has not grown without bound.
  */
 import * as encoding from 'lib0/encoding'
+import v8 from 'node:v8'
+import vm from 'node:vm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import { connectDoc, makeRoom, makeUser, signIn, startLive, type DocClient, type Live } from '../realtime/live-helpers.js'
-import { openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
+import { openRaw, roundTrip, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
 
 let live: Live
 let cookie: string
@@ -41,6 +43,18 @@ async function attacker(): Promise<{ roomId: string; peer: RawPeer }> {
   await waitFor(() => peer.syncSeen.includes(1), 5000, 'initial sync')
   return { roomId, peer }
 }
+
+// node:v8 turns on --expose-gc at run time; the gc function then lives in a fresh context.
+v8.setFlagsFromString('--expose-gc')
+const gc = vm.runInNewContext('gc') as () => void
+/** heapUsed after a full collection, so garbage not yet collected does not count as growth. */
+function heapAfterGc(): number {
+  gc()
+  gc()
+  return process.memoryUsage().heapUsed
+}
+const DEEP_BOUND_MB = 30
+const GARBAGE_BOUND_MB = 10
 
 let tick = 0
 /** The unrelated room still relays a move from one watcher to the other. */
@@ -97,7 +111,8 @@ describe('malformed sync messages', () => {
     forged.getMap('junk').set('big', 'x'.repeat(10_000))
     peer.send(syncMessage(2, Y.encodeStateAsUpdateV2(forged)))
     // Either the socket is closed or the bytes changed nothing; both leave the document as it was.
-    await Promise.race([peer.closed, new Promise((r) => setTimeout(r, 500))])
+    // The round trip proves the server has dealt with the forged message before we look.
+    await roundTrip(peer)
     expect(JSON.stringify(readRawFrame(server.doc))).toBe(before)
     expect(server.doc.getMap('junk').size).toBe(0)
     await otherRoomStillRelays()
@@ -105,8 +120,8 @@ describe('malformed sync messages', () => {
 })
 
 describe('crafted deep structure and memory', () => {
-  it('takes a deeply nested update without crashing and keeps the heap bounded', async () => {
-    const heapBefore = process.memoryUsage().heapUsed
+  it('takes a deeply nested update without crashing and frees it with the room', async () => {
+    const heapBefore = heapAfterGc()
     for (let round = 0; round < 3; round++) {
       const { roomId, peer } = await attacker()
       const deep = new Y.Doc()
@@ -132,23 +147,27 @@ describe('crafted deep structure and memory', () => {
       peer.ws.close()
       await peer.closed
       await otherRoomStillRelays()
+      await waitFor(() => live.realtime.rooms.peek(roomId) === undefined, 20_000, 'deep room freed')
     }
-    // Each room is freed after its last socket leaves; a loose bound (not a leak detector).
-    await new Promise((r) => setTimeout(r, 500))
-    const grownMb = (process.memoryUsage().heapUsed - heapBefore) / 1024 / 1024
-    console.log(`heap grew ${grownMb.toFixed(1)} MB over three deep updates`)
-    expect(grownMb).toBeLessThan(200)
+    // Measured after a full collection. One such document costs about 11.6 MB of heap (yjs 13.6,
+    // measured on this machine), so a room kept alive per round would grow ≥ 35 MB over three.
+    // Seen here: about 25 MB (two documents' worth) remains after all three rooms were freed; to be
+    // looked into — the bound catches a leak that grows with every room, not that residue.
+    const grownMb = (heapAfterGc() - heapBefore) / 1024 / 1024
+    console.log(`heap grew ${grownMb.toFixed(1)} MB over three deep updates (after gc)`)
+    expect(grownMb).toBeLessThan(DEEP_BOUND_MB)
   })
 
   it('keeps the heap bounded under a stream of garbage from many sockets', async () => {
-    const heapBefore = process.memoryUsage().heapUsed
+    const heapBefore = heapAfterGc()
     for (let i = 0; i < 40; i++) {
       const { peer } = await attacker()
       peer.send(Uint8Array.from([0, 2, ...varUint(0x7fffffff)]))
       await peer.closed
     }
     await otherRoomStillRelays()
-    const grownMb = (process.memoryUsage().heapUsed - heapBefore) / 1024 / 1024
-    expect(grownMb).toBeLessThan(100)
+    const grownMb = (heapAfterGc() - heapBefore) / 1024 / 1024
+    console.log(`heap grew ${grownMb.toFixed(1)} MB over 40 garbage sockets (after gc)`)
+    expect(grownMb).toBeLessThan(GARBAGE_BOUND_MB)
   })
 })

@@ -86,3 +86,18 @@ export async function waitFor(check: () => boolean, ms: number, what: string): P
     await new Promise((r) => setTimeout(r, 10))
   }
 }
+
+/**
+ * A sync step 1 and its answer: the server answers after the updates it received before are stored
+ * and applied (server/realtime/sync-endpoint.ts), so once this returns they have been dealt with.
+ * Resolves 'closed' when the server closed the socket instead.
+ */
+export async function roundTrip(peer: RawPeer, ms = 10_000): Promise<'answered' | 'closed'> {
+  const answers = () => peer.syncSeen.filter((step) => step === syncProtocol.messageYjsSyncStep2).length
+  const before = answers()
+  let closed = false
+  void peer.closed.then(() => (closed = true))
+  if (peer.ws.readyState === WebSocket.OPEN) peer.send(syncMessage(0, Y.encodeStateVector(peer.doc)))
+  await waitFor(() => closed || peer.ws.readyState !== WebSocket.OPEN || answers() > before, ms, 'sync round trip')
+  return answers() > before ? 'answered' : 'closed'
+}

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { computeFigures, DEFAULT_FLAT_THRESHOLD } from '../../shared/figures'
 import { meshFrame } from '../../shared/mesh'
+import { faceAreas, vertexAngleDefects } from '../../shared/mesh/quantities'
 import { parseFrameJson } from '../../shared/frame'
 import type { MembraneMesh } from '../../shared/types'
 import { frameFile, squareLoop } from './frame-fixtures'
@@ -45,11 +46,28 @@ describe('figures on analytic surfaces', () => {
     expect(computeFigures(gentle, frame, { flatThreshold: 1 }).flatShare).toBe(0)
   })
 
-  it('spherical cap: Gaussian curvature positive (angle defects > 0), no anticlastic area', () => {
+  it('spherical cap: angle defects carry K = 1/R² per unit area, no anticlastic area', () => {
     const R = 10
-    const f = computeFigures(withHeights((x, y) => Math.sqrt(R * R - (x - c) ** 2 - (y - c) ** 2)), frame)
-    // Gauss–Bonnet: angle defect = integrated Gaussian curvature, K = 1/R² > 0 on a sphere
+    const cap = withHeights((x, y) => Math.sqrt(R * R - (x - c) ** 2 - (y - c) ** 2))
+    const f = computeFigures(cap, frame)
+    // Gauss–Bonnet: the angle defect at a vertex is the Gaussian curvature integrated over its
+    // share of the surface, and K = 1/R² everywhere on a sphere of radius R (differential geometry).
+    const V = cap.vertices, T = cap.triangles
+    const boundary = Array.from(cap.vertexLoops, (l) => (l >= 0 ? 1 : 0))
+    const defects = vertexAngleDefects(new Float64Array(V.length / 3), V, T, boundary)
+    const share = new Float64Array(V.length / 3)
+    const areas = faceAreas(new Float64Array(T.length / 3), V, T)
+    for (let t = 0; t < T.length / 3; t++) for (let k = 0; k < 3; k++) share[T[3 * t + k]!]! += areas[t]! / 3
+    let defectSum = 0, interiorArea = 0
+    for (let v = 0; v < share.length; v++) {
+      if (boundary[v]) continue
+      expect(defects[v]!).toBeGreaterThan(0)
+      defectSum += defects[v]!
+      interiorArea += share[v]!
+    }
+    expect(defectSum / interiorArea).toBeCloseTo(1 / (R * R), 4)
     expect(f.anticlasticShare).toBe(0)
+    // the cap's top is its highest point, not a pocket
     expect(f.pondingPockets).toEqual([])
   })
 
