@@ -23,6 +23,8 @@ export interface LiveRoomPort {
   emitToRoom: RoomEmit
   /** Closes the live sockets (sync and surface stream) of a room and/or a user. */
   closeRoomSockets(roomId?: string, userId?: string): void
+  /** A room was deleted: its sockets are closed (code 4404) and its live document dropped unstored. */
+  roomDeleted(roomId: string): void
   /** Gives a new room's empty document a starting frame; false when it already had one. */
   ensureRoomFrame(roomId: string, starter: StarterKey): Promise<boolean>
 }
@@ -40,6 +42,7 @@ export function offlineLiveRoom(): LiveRoomPort {
     getLatestSurface: () => Promise.reject(unavailable()),
     emitToRoom: () => undefined,
     closeRoomSockets: () => undefined,
+    roomDeleted: () => undefined,
     ensureRoomFrame: () => Promise.resolve(false),
   }
 }

@@ -93,8 +93,10 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
   }
   const stream = attachSurfaceStream(io, { rooms, access, latest: loop.latest })
   const sync = attachSyncEndpoint(httpServer, { rooms, access, origins })
-  const closeLocal = (roomId?: string, userId?: string) => {
-    sync.closeWhere(roomId, userId)
+  const closeLocal = (roomId?: string, userId?: string, deleted = false) => {
+    if (deleted && roomId) rooms.discard(roomId)
+    if (deleted) sync.closeWhere(roomId, userId, 4404, 'room deleted')
+    else sync.closeWhere(roomId, userId)
     stream.closeWhere(roomId, userId)
   }
   const bus = scale
@@ -134,6 +136,9 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
     },
     emitToRoom: (roomId, event, payload) => stream.emit(roomId, event, payload),
     closeRoomSockets: (roomId, userId) => (bus ? bus.closeWhere(roomId, userId) : closeLocal(roomId, userId)),
+    // A deleted room is dropped on every instance, first, so edits still in flight on the closing
+    // sockets are neither stored nor relayed.
+    roomDeleted: (roomId) => (bus ? bus.closeWhere(roomId, undefined, true) : closeLocal(roomId, undefined, true)),
     close: async () => {
       // socket.io first: the sync endpoint's close then destroys every upgraded socket, both kinds.
       await stream.close()

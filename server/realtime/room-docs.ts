@@ -49,6 +49,8 @@ export class LiveRoom {
   knownIds: number[] = []
   /** True when this load found no document and wrote a starting frame. */
   seeded = false
+  /** The room was deleted: nothing more is stored or relayed, the doc waits for its sockets to go. */
+  discarded = false
   idleTimer: NodeJS.Timeout | undefined
   readonly relays = new Set<RelayListener>()
   /** Which socket introduced each awareness client id (checked by the sync endpoint). */
@@ -185,6 +187,19 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
     }
   }
 
+  /**
+   * Forgets a deleted room: pending updates are dropped and nothing more is stored (every write
+   * would fail the foreign key); the doc is freed when its last holder releases it.
+   */
+  discard(roomId: string): void {
+    const room = this.loaded.get(roomId)
+    if (!room) return
+    room.discarded = true
+    room.unstored = []
+    clearTimeout(room.idleTimer)
+    room.relays.clear()
+  }
+
   /** Persists every loaded room and frees them all. */
   async close(): Promise<void> {
     this.closed = true
@@ -227,6 +242,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   }
 
   private accepted(room: LiveRoom, update: Uint8Array, origin: unknown): void {
+    if (room.discarded) return
     if (origin instanceof RemoteOrigin) {
       // Stored by the instance that accepted it; relayed in order with this room's own updates.
       const version = (room.version = Math.max(room.version + 1, origin.version))
@@ -247,6 +263,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   }
 
   private async storeAndRelay(room: LiveRoom): Promise<void> {
+    if (room.discarded) return
     const batch = room.unstored
     room.unstored = []
     let lastId: number | undefined
@@ -278,7 +295,7 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
   private async compact(room: LiveRoom): Promise<void> {
     // Runs inside the room's chain, so no append can interleave; edits accepted meanwhile are
     // either inside the encoded state or get rows of their own.
-    if (room.sinceCompact === 0 && room.lastUpdateId === 0) return
+    if (room.discarded || (room.sinceCompact === 0 && room.lastUpdateId === 0)) return
     try {
       const folded = room.sinceCompact
       if (this.shared) {

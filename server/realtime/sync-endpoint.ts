@@ -35,9 +35,26 @@ export interface SyncEndpointOptions {
 export interface SyncEndpoint {
   /** Open connections, for tests and the benchmark. */
   connections: () => number
-  /** Closes the sockets of a room and/or a user (membership removed, signed out); both optional. */
-  closeWhere: (roomId?: string, userId?: string) => void
+  /**
+   * Revokes the sockets of a room and/or a user (membership removed or changed, signed out, room
+   * deleted); both optional. From this call on their messages are dropped and nothing more is
+   * sent to them; the socket is told why (`code`, default 4403) and then terminated.
+   */
+  closeWhere: (roomId?: string, userId?: string, code?: number, reason?: string) => void
   close: () => Promise<void>
+}
+
+/** Sockets whose access was withdrawn: their messages are dropped while the close goes out. */
+const revoked = new WeakSet<WebSocket>()
+/** How long a revoked socket has to receive its close frame before it is cut. */
+const REVOKE_GRACE_MS = 100
+
+function revoke(ws: WebSocket, code: number, reason: string): void {
+  if (revoked.has(ws)) return
+  revoked.add(ws)
+  // close() alone would wait up to 30 s for the peer's reply; the peer does not get to decide.
+  ws.close(code, reason)
+  setTimeout(() => ws.terminate(), REVOKE_GRACE_MS).unref()
 }
 
 function refuse(socket: Duplex, status: number, reason: string): void {
@@ -113,9 +130,9 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
 
   return {
     connections: () => live.size,
-    closeWhere: (roomId, userId) => {
+    closeWhere: (roomId, userId, code = 4403, reason = 'access changed') => {
       for (const [ws, who] of live) {
-        if ((roomId === undefined || who.roomId === roomId) && (userId === undefined || who.userId === userId)) ws.close(4403, 'access changed')
+        if ((roomId === undefined || who.roomId === roomId) && (userId === undefined || who.userId === userId)) revoke(ws, code, reason)
       }
     },
     close: async () => {
@@ -141,7 +158,7 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string)
   ws.on('error', (err) => logger.debug('realtime: sync socket error', { roomId: room.roomId, err: String(err) }))
 
   const relay = (update: Uint8Array, origin: unknown) => {
-    if (origin === ws) return
+    if (origin === ws || revoked.has(ws)) return
     const encoder = encoding.createEncoder()
     encoding.writeVarUint(encoder, MESSAGE_SYNC)
     syncProtocol.writeUpdate(encoder, update)
@@ -155,11 +172,13 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string)
       for (const id of [...changes.added, ...changes.updated]) controlled.add(id)
       for (const id of changes.removed) controlled.delete(id)
     }
+    if (revoked.has(ws)) return
     send(ws, awarenessMessage(room, changed))
   }
   room.awareness.on('update', onAwareness)
 
   ws.on('message', (data, isBinary) => {
+    if (revoked.has(ws)) return
     try {
       if (!isBinary) throw new Error('text frame')
       handleMessage(ws, room, readOnly, userId, toBytes(data))

@@ -25,8 +25,8 @@ const docChannel = (roomId: string) => `vr:doc:${roomId}`
 const REMOTE_PRESENCE = Symbol('remote-presence')
 
 export interface DocBus {
-  /** Asks every instance (this one included) to close the sockets of a room and/or a user. */
-  closeWhere: (roomId?: string, userId?: string) => void
+  /** Asks every instance (this one included) to close the sockets of a room and/or a user; `deleted` also drops the room's live document. */
+  closeWhere: (roomId?: string, userId?: string, deleted?: boolean) => void
   close: () => void
 }
 
@@ -37,7 +37,7 @@ export function attachDocBus(opts: {
   sub: Redis
   instanceId: string
   /** Closes this instance's own sockets (sync endpoint and surface stream). */
-  closeLocal: (roomId?: string, userId?: string) => void
+  closeLocal: (roomId?: string, userId?: string, deleted?: boolean) => void
   /** Called after Redis came back, once the rooms have caught up. */
   onReconnect?: () => void
 }): DocBus {
@@ -99,8 +99,8 @@ export function attachDocBus(opts: {
     const channel = channelBytes.toString()
     try {
       if (channel === CONTROL) {
-        const { roomId, userId } = JSON.parse(message.toString()) as { roomId?: string; userId?: string }
-        return opts.closeLocal(roomId, userId)
+        const { roomId, userId, deleted } = JSON.parse(message.toString()) as { roomId?: string; userId?: string; deleted?: boolean }
+        return opts.closeLocal(roomId, userId, deleted === true)
       }
       const room = rooms.peek(channel.slice('vr:doc:'.length))
       if (!room) return
@@ -139,8 +139,8 @@ export function attachDocBus(opts: {
   rooms.on('freed', onFreed)
 
   return {
-    closeWhere: (roomId, userId) => {
-      pub.publish(CONTROL, JSON.stringify({ roomId, userId })).catch(() => opts.closeLocal(roomId, userId))
+    closeWhere: (roomId, userId, deleted) => {
+      pub.publish(CONTROL, JSON.stringify({ roomId, userId, deleted })).catch(() => opts.closeLocal(roomId, userId, deleted))
     },
     close: () => {
       rooms.off('loaded', onLoaded)

@@ -32,6 +32,10 @@ export function recordingLive(inner?: Partial<RoomLive>): RecordingLive {
       live.closed.push({ roomId, userId })
       inner?.closeRoomSockets?.(roomId, userId)
     },
+    roomDeleted(roomId) {
+      live.closed.push({ roomId })
+      inner?.roomDeleted?.(roomId)
+    },
     ensureRoomFrame: (roomId, starter) => inner?.ensureRoomFrame?.(roomId, starter) ?? Promise.resolve(false),
   }
   return live

@@ -32,7 +32,10 @@ export function requireRoomAction(dataSource: DataSource, action: RoomAction, pa
     if (!req.user) throw signedOut()
     const roomId = req.params[param]
     if (typeof roomId !== 'string' || !uuidPattern.test(roomId)) throw roomNotFound()
-    const membership = await memberships.findOneBy({ roomId: roomId.toLowerCase(), userId: req.user.id })
+    // Normalised here, once, for every handler behind the guard: live sockets are keyed by the
+    // lower-case id, so an upper-case URL must not reach closeRoomSockets or the services as typed.
+    req.params[param] = roomId.toLowerCase()
+    const membership = await memberships.findOneBy({ roomId: req.params[param], userId: req.user.id })
     if (!membership) throw roomNotFound()
     if (!can(membership.role, action)) throw forbidden()
     req.roomRole = membership.role

@@ -6,7 +6,7 @@ import { createRoomBody, updateRoomBody } from './rooms-schema.js'
 import type { RoomsService } from './rooms-service.js'
 
 /** /api/rooms: thin handlers; the service holds the rules, requireRoomAction the access. */
-export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<LiveRoomPort, 'ensureRoomFrame'>): Router {
+export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: Pick<LiveRoomPort, 'ensureRoomFrame' | 'roomDeleted'>): Router {
   const router = Router()
   const viewer = requireRoomAction(dataSource, 'read')
 
@@ -33,6 +33,7 @@ export function roomsRoutes(dataSource: DataSource, rooms: RoomsService, live?: 
 
   router.delete('/:id', requireRoomAction(dataSource, 'deleteRoom'), async (req, res) => {
     await rooms.remove(req.params.id as string)
+    live?.roomDeleted(req.params.id as string)
     res.status(204).end()
   })
 
