@@ -10,7 +10,8 @@
  *    again, for BENCH_SECONDS; solves/s with 1 worker, then with M (a worker is added).
  *
  * Prints the machine's load and a calibration loop beside the figures; writes
- * bench-results/scale-<N>.json. Env: BENCH_SECONDS (5), REDIS_PORT (6389), BENCH_SOLVE_ROOMS (6).
+ * bench-results/scale-<N>.json. Env: BENCH_SECONDS (5), REDIS_PORT (6389), BENCH_SOLVE_ROOMS (6), BENCH_ROOMS
+ * (the relay ladder, default 1,5,10).
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs'
@@ -142,7 +143,7 @@ try {
     `\n${N} instance(s); rooms × 10 editors, editors spread over the instances (edit → peer, target p99 100 ms)`,
   )
   const relay = []
-  for (const rooms of [1, 5, 10]) {
+  for (const rooms of (process.env.BENCH_ROOMS ?? '1,5,10').split(',').map(Number)) {
     const ids = await Promise.all(Array.from({ length: rooms }, newRoom))
     const outs = await Promise.allSettled(ids.map(clients))
     const ok = outs.flatMap((o) => (o.status === 'fulfilled' ? [o.value] : []))
