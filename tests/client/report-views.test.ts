@@ -70,6 +70,10 @@ describe('report drawings', () => {
     expect(v.contourLabels.map((l) => l.text)).toEqual(['0.50', '1.00', '1.50', '2.00', '2.50', '3.00', '3.50'])
     expect(v.points.map((p) => p.label.text)).toEqual(['P1', 'P2', 'P3', 'P4'])
     expect(v.pins.map((p) => p.text)).toEqual(['1', '2'])
+    // pins on one spot: the later discs move aside, clear of each other, with a leader to the point
+    const stacked = planView(mesh, frame, [{ x: 1, y: 1 }, { x: 1, y: 1 }, { x: 1, y: 1 }], 600, 600).pins
+    expect(stacked[0]!.leader).toBeNull()
+    for (let i = 0; i < 3; i++) for (let j = 0; j < i; j++) expect(Math.hypot(stacked[i]!.x - stacked[j]!.x, stacked[i]!.y - stacked[j]!.y)).toBeGreaterThanOrEqual(17)
     expect(v.faces).toHaveLength(128)
   })
 

@@ -55,3 +55,21 @@ export function spreadLabels(candidates: readonly (readonly [number, number])[][
     return best
   })
 }
+
+/**
+ * Pin discs numbered 1, 2, … at their plan positions; a disc that would cover an earlier one moves
+ * round it on a widening circle and keeps a leader line to its point, so every number stays legible.
+ */
+export function spreadPins(at: [number, number][]): { x: number; y: number; text: string; leader: string | null }[] {
+  const placed: [number, number][] = []
+  return at.map(([x0, y0], i) => {
+    let [x, y] = [x0, y0]
+    for (let k = 0; placed.some(([px, py]) => Math.hypot(px - x, py - y) < 17); k++) {
+      const r = 18 * (1 + Math.floor(k / 6)), a = (k * Math.PI) / 3 - Math.PI / 4
+      ;[x, y] = [x0 + r * Math.cos(a), y0 + r * Math.sin(a)]
+    }
+    placed.push([x, y])
+    const leader = x !== x0 || y !== y0 ? `M${x0.toFixed(1)} ${y0.toFixed(1)}L${x.toFixed(1)} ${y.toFixed(1)}` : null
+    return { x, y, text: String(i + 1), leader }
+  })
+}

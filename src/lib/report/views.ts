@@ -5,7 +5,7 @@
  */
 import { contourInterval, contourLevels, contourSegments, loopNames, type ReportFrame } from '../../../shared/report'
 import { FLAT_CLASSES, HEIGHT_RAMP, hexToRgb, rampColour } from '../../components/workbench/colour-maps'
-import { loopPointLabels, spreadLabels, type PointLabel } from './labels'
+import { loopPointLabels, spreadLabels, spreadPins, type PointLabel } from './labels'
 import { backToFront, faceShades, faceSlopeAngles, planTransform, projectVertices, scaleBarLength, viewAxes } from './projection'
 
 export interface SurfaceArrays {
@@ -90,7 +90,7 @@ export function planView(s: SurfaceArrays, frame: ReportFrame, pins: readonly { 
     faces.push({ d: triPath(p, s.triangles, t), fill: hex(c.map((v) => 0.45 * v + 0.55)) })
   }
   const points = frameLabels(frame, (x, y) => [fit.x(x), fit.y(y)])
-  const pinMarks = pins.map((q, i) => ({ x: fit.x(q.x), y: fit.y(q.y), text: String(i + 1) }))
+  const pinMarks = spreadPins(pins.map((q) => [fit.x(q.x), fit.y(q.y)]))
   const interval = contourInterval(zMin, zMax)
   const levels = interval ? contourLevels(zMin, zMax, interval) : []
   const candidates: [number, number][][] = []
