@@ -1,8 +1,8 @@
 /**
  * Vertex colours for the comparison and report views: distance to the other surface, and slope.
- * Ramps are the workbench's own (components/workbench/colour-maps.ts) plus one for distance.
+ * Ramps are the workbench's own (src/lib/colour-maps.ts) plus one for distance.
  */
-import { rampColour, SLOPE_RAMP, SLOPE_SPAN, srgbToLinear, type Stop } from '../components/workbench/colour-maps'
+import { rampColour, SLOPE_RAMP, SLOPE_SPAN, srgbToLinear, type Stop } from '../lib/colour-maps'
 
 /** Unchanged (pale sand) through teal to moved far (clay); our own ramp. */
 export const DISTANCE_RAMP: readonly Stop[] = [

@@ -8,7 +8,7 @@
 import { onBeforeUnmount, ref, watch, type ShallowRef } from 'vue'
 import { framePoints, frameLines } from '../components/workbench/frame-geometry'
 import { holeRing, nearestPoint2D, nearestSegment2D, rayPlaneZ } from '../components/workbench/picking'
-import { heightFromDrag, snapPlan, snapValue } from '../components/workbench/snapping'
+import { heightFromDrag, snapPlan, snapValue } from '../lib/snapping'
 import { useWorkbenchStore } from '../stores/workbench'
 import type { Viewport } from './use-viewport'
 

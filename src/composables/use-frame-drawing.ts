@@ -8,7 +8,7 @@ import { watch, type ShallowRef } from 'vue'
 import * as THREE from 'three'
 import type { Peer, HeldPoint } from '../api/collaboration'
 import { frameLines, framePoints, frameBounds } from '../components/workbench/frame-geometry'
-import type { FrameView } from '../components/workbench/frame-view'
+import type { FrameView } from '../lib/frame-view'
 import type { Viewport } from './use-viewport'
 
 const COLOURS = {

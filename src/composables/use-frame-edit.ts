@@ -5,7 +5,7 @@
  */
 import { reactive } from 'vue'
 import { useWorkbenchStore } from '../stores/workbench'
-import type { PointRow } from '../components/workbench/frame-view'
+import type { PointRow } from '../lib/frame-view'
 
 /** Largest coordinate accepted from the keyboard, m; a typo of extra digits should not fly off. */
 export const COORDINATE_LIMIT = 10_000

@@ -6,7 +6,7 @@
  */
 import { shallowRef, watch, type ShallowRef } from 'vue'
 import * as THREE from 'three'
-import { surfaceColours, type ColourMode, type ColourRange } from '../components/workbench/colour-maps'
+import { surfaceColours, type ColourMode, type ColourRange } from '../lib/colour-maps'
 import type { SurfaceMesh } from '../../shared/protocol'
 import type { Viewport } from './use-viewport'
 import { DEFAULT_FLAT_THRESHOLD } from '../../shared/figures/compute-figures'

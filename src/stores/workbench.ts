@@ -19,9 +19,9 @@ import type { Socket } from 'socket.io-client'
 import { connectSurfaceStream, type SurfaceStream } from '../api/socket'
 import { can, type RoomRole, type SolveStateEvent, type SurfaceEvent } from '../../shared/protocol'
 import { getUnderlayMeta, roomPath, type UnderlayMeta } from '../api/team'
-import type { ColourMode } from '../components/workbench/colour-maps'
-import { frameRows, readFrameView, type FrameView } from '../components/workbench/frame-view'
-import { DEFAULT_SNAP_STEP } from '../components/workbench/snapping'
+import type { ColourMode } from '../lib/colour-maps'
+import { frameRows, readFrameView, type FrameView } from '../lib/frame-view'
+import { DEFAULT_SNAP_STEP } from '../lib/snapping'
 
 /** Solver status as shown: offline until the stream is up, then the server's solver states. */
 export interface SolverStatus {

@@ -10,7 +10,7 @@ import {
   srgbToLinear,
   surfaceColours,
   vertexSlopes,
-} from '../../src/components/workbench/colour-maps'
+} from '../../src/lib/colour-maps'
 
 /** A grid of (n+1)² vertices over [0, size]² with z = f(x, y), two triangles per cell. */
 function gridSurface(n: number, size: number, f: (x: number, y: number) => number) {

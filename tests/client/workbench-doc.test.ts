@@ -3,7 +3,7 @@ import * as Y from 'yjs'
 import { writeFrame, loopsOf } from '../../shared/room-doc/schema'
 import { movePoint, insertPointAfter } from '../../shared/room-doc/edits'
 import { starterFrame } from '../../shared/room-doc/starters'
-import { frameRows, readFrameView } from '../../src/components/workbench/frame-view'
+import { frameRows, readFrameView } from '../../src/lib/frame-view'
 import { frameLines, frameBounds } from '../../src/components/workbench/frame-geometry'
 import { createUndoManager, includesClock, ownClock } from '../../src/api/collaboration'
 

@@ -9,7 +9,7 @@ import { addHole, deletePoint, insertPointAfter, movePoint, removeHole, setEdge,
 import { readRoomFrame } from '../../shared/room-doc/read'
 import { frameMap, loopsOf, writeFrame } from '../../shared/room-doc/schema'
 import { starterFrame } from '../../shared/room-doc/starters'
-import { frameRows, readFrameView } from '../../src/components/workbench/frame-view'
+import { frameRows, readFrameView } from '../../src/lib/frame-view'
 
 function tent(): Y.Doc {
   const doc = new Y.Doc()

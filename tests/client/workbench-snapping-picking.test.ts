@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import * as THREE from 'three'
-import { DEFAULT_SNAP_STEP, heightFromDrag, snapPlan, snapValue } from '../../src/components/workbench/snapping'
+import { DEFAULT_SNAP_STEP, heightFromDrag, snapPlan, snapValue } from '../../src/lib/snapping'
 import { holeRing, nearestPoint2D, nearestSegment2D, rayPlaneZ } from '../../src/components/workbench/picking'
 
 describe('snapping', () => {

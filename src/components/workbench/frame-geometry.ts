@@ -4,7 +4,7 @@
  * coordinate (a bad value in the document) are skipped together with their edges, so one bad
  * number never breaks the whole drawing.
  */
-import type { FrameView, ViewPoint } from './frame-view.ts'
+import type { FrameView, ViewPoint } from '../../lib/frame-view'
 
 type XYZ = { x: number; y: number; z: number }
 

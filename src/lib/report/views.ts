@@ -4,7 +4,7 @@
  * surface (vertices #V×3 m, triangles #T×3), the frame and the pins.
  */
 import { contourInterval, contourLevels, contourSegments, loopNames, type ReportFrame } from '../../../shared/report'
-import { FLAT_CLASSES, HEIGHT_RAMP, hexToRgb, rampColour } from '../../components/workbench/colour-maps'
+import { FLAT_CLASSES, HEIGHT_RAMP, hexToRgb, rampColour } from '../colour-maps'
 import { loopPointLabels, spreadLabels, spreadPins, type PointLabel } from './labels'
 import { backToFront, faceShades, faceSlopeAngles, planTransform, projectVertices, scaleBarLength, viewAxes } from './projection'
 

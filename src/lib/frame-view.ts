@@ -6,9 +6,9 @@
  * shared/room-doc/read.ts: a misplaced type is skipped and reported as `problem`, never thrown.
  */
 import * as Y from 'yjs'
-import type { EdgeKind } from '../../../shared/types'
-import { mapsIn, shapeProblem, type ShapeProblem } from '../../../shared/room-doc/read'
-import { frameMap } from '../../../shared/room-doc/schema'
+import type { EdgeKind } from '../../shared/types'
+import { mapsIn, shapeProblem, type ShapeProblem } from '../../shared/room-doc/read'
+import { frameMap } from '../../shared/room-doc/schema'
 
 export interface ViewPoint {
   id: string
