@@ -13,6 +13,7 @@ import { roomsRoutes } from './modules/rooms/rooms-routes.js'
 import { roomsService } from './modules/rooms/rooms-service.js'
 import { teamworkRoutes } from './modules/invites/teamwork-routes.js'
 import { offlineLiveRoom, type LiveRoomPort } from './live-room-port/index.js'
+import { announceRoomWrites, roomWrites, type RoomWrites } from './modules/activity/room-writes.js'
 import { createSession } from './session.js'
 
 export interface AppDeps {
@@ -57,6 +58,8 @@ export interface AppBundle {
   passportSession: RequestHandler
   /** Mount extra /api routers here before the 404 and error handlers (e.g. snapshots, pins). */
   api: express.Router
+  /** Successful writes under /api/rooms/:id, by room (the rooms list's live updates listen). */
+  writes: RoomWrites
   close: () => Promise<void>
 }
 
@@ -116,6 +119,8 @@ export function createApp({
   })
   api.use(web.sessionMiddleware, passport.initialize(), passportSession)
   api.use(csrfSynchronisedProtection)
+  const writes = roomWrites()
+  api.use(announceRoomWrites(writes))
   api.use(
     '/auth',
     authRoutes({ auth, passport, csrfToken: (req) => generateToken(req), onSignOut: (userId) => live.closeRoomSockets(undefined, userId) }),
@@ -131,5 +136,5 @@ export function createApp({
   }
   app.use(errorHandler)
 
-  return { app, sessionMiddleware: web.sessionMiddleware, passportSession, api, close: web.close }
+  return { app, sessionMiddleware: web.sessionMiddleware, passportSession, api, writes, close: web.close }
 }

@@ -11,6 +11,7 @@ import { installProcessGuards } from './lib/process-guards.js'
 import type { LiveRoomPort } from './live-room-port/index.js'
 import { attachRealtime, type Realtime, type RealtimeDeps } from './realtime/index.js'
 import { connectScale } from './scale/index.js'
+import { attachActivity, type Activity } from './modules/activity/index.js'
 
 export interface StartOptions {
   /** 0 picks a free port (tests). Defaults to config.PORT. */
@@ -32,6 +33,8 @@ export interface Running extends AppBundle {
   url: string
   /** The live room: CRDT endpoint, surface stream, solve workers. */
   realtime: Realtime
+  /** The rooms list's activity: frame edits, solve outcomes, live `rooms:changed`. */
+  activity: Activity
   stop: () => Promise<void>
 }
 
@@ -61,6 +64,7 @@ export async function start(options: StartOptions = {}): Promise<Running> {
   const realtime = attachRealtime(server, { ...web, dataSource, config, tuning: options.tuning, scale })
   const live = options.live ? options.live(realtime) : realtime
   const bundle = createApp({ config, dataSource, web, app, live, redisState: scale?.state })
+  const activity = attachActivity({ realtime, dataSource, api: bundle.api, writes: bundle.writes })
   if (demoRooms) {
     await realtime.ensureRoomFrame(demoRooms.courtyard, 'tent')
     await realtime.ensureRoomFrame(demoRooms['shade-sail'], 'sail')
@@ -80,9 +84,11 @@ export async function start(options: StartOptions = {}): Promise<Running> {
     port,
     url,
     realtime,
+    activity,
     stop: async () => {
       // Closes the live sockets and solve workers and stores every loaded room document.
       await realtime.close()
+      await activity.close()
       server.closeAllConnections()
       await new Promise<void>((resolve) => server.close(() => resolve()))
       await bundle.close()

@@ -12,9 +12,9 @@ import { allowedOrigins } from './access.js'
 import { RoomDocs, type RoomDocsOptions } from './room-docs.js'
 import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { createSolveLoop, type SolveLoop } from './solve-loop.js'
-import type { LiveRoomPort } from '../live-room-port/index.js'
+import type { LiveRoomPort, RoomEmit } from '../live-room-port/index.js'
 import { SolvePool } from './solve-pool.js'
-import { attachSurfaceStream, createStreamServer, roomEmitter } from './surface-stream.js'
+import { attachSurfaceStream, createStreamServer, roomEmitter, type StreamServer } from './surface-stream.js'
 import { attachSyncEndpoint } from './sync-endpoint.js'
 import { createAdapter } from '@socket.io/redis-adapter'
 import type { ScaleLink } from '../scale/index.js'
@@ -33,10 +33,16 @@ export interface RealtimeDeps {
   tuning?: RoomDocsOptions & { workers?: number; staleMs?: number; coarseAbove?: number }
 }
 
+export type RoomEventListener = (roomId: string, event: string, payload: unknown) => void
+
 /** The live room; as a LiveRoomPort it is what the HTTP modules receive. getLatestSurface solves on demand (up to 60 s). */
 export interface Realtime extends LiveRoomPort {
   rooms: RoomDocs
   loop: SolveLoop
+  /** The socket.io server of the surface stream (other modules add their own events to it). */
+  io: StreamServer
+  /** Calls `listener` with every event sent to a room (solve states, surfaces, pins); returns the unsubscribe. */
+  onRoomEvent: (listener: RoomEventListener) => () => void
   /** Closes sockets, stops the workers and stores every loaded room. */
   close: () => Promise<void>
 }
@@ -73,10 +79,17 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
   // socket.io first, then the loop that emits through it, then the room handlers that read the loop.
   const adapter = scale ? createAdapter(scale.redis, scale.subscriber('socket.io')) : undefined
   const io = createStreamServer(httpServer, { access, origins, adapter })
+  const toRoom = roomEmitter(io)
+  // Every room event also goes to the listeners (the rooms list's activity).
+  const listeners = new Set<RoomEventListener>()
+  const emit: RoomEmit = (roomId, event, payload) => {
+    toRoom(roomId, event, payload)
+    for (const listener of listeners) listener(roomId, event, payload)
+  }
   let pool: SolvePool | null = null
   let loop: SolveLoop
   // In scale-out, solves are BullMQ jobs for `npm run worker` processes (server/scale).
-  const cluster = scale ? createClusterSolveLoop({ rooms, redis: scale.redis, emit: roomEmitter(io) }) : null
+  const cluster = scale ? createClusterSolveLoop({ rooms, redis: scale.redis, emit }) : null
   if (cluster) loop = cluster
   else {
     pool = new SolvePool(tuning.workers ?? config.SOLVE_WORKERS ?? 2)
@@ -86,7 +99,7 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
     loop = createSolveLoop({
       rooms,
       pool,
-      emit: roomEmitter(io),
+      emit,
       staleMs: tuning.staleMs,
       coarseAbove: tuning.coarseAbove,
     })
@@ -134,7 +147,12 @@ export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime
         await rooms.release(room)
       }
     },
-    emitToRoom: (roomId, event, payload) => stream.emit(roomId, event, payload),
+    io,
+    onRoomEvent: (listener) => {
+      listeners.add(listener)
+      return () => listeners.delete(listener)
+    },
+    emitToRoom: emit,
     closeRoomSockets: (roomId, userId) => (bus ? bus.closeWhere(roomId, userId) : closeLocal(roomId, userId)),
     // A deleted room is dropped on every instance, first, so edits still in flight on the closing
     // sockets are neither stored nor relayed.

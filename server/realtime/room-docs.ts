@@ -55,6 +55,8 @@ export class LiveRoom {
   readonly relays = new Set<RelayListener>()
   /** Which socket introduced each awareness client id (checked by the sync endpoint). */
   readonly presenceOwners = new Map<number, { socket: unknown; userId: string }>()
+  /** The user each update origin (a sync socket) speaks for: the rooms list names who edited. */
+  readonly editors = new WeakMap<object, string>()
   /** Accepted updates waiting for the next write, oldest first. */
   unstored: { update: Uint8Array; origin: unknown; version: number }[] = []
 

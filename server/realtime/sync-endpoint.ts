@@ -155,6 +155,7 @@ function send(ws: WebSocket, message: Uint8Array): void {
 /** Speaks the y-websocket protocol on one accepted socket. */
 function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string): void {
   const controlled = new Set<number>()
+  room.editors.set(ws, userId)
   ws.on('error', (err) => logger.debug('realtime: sync socket error', { roomId: room.roomId, err: String(err) }))
 
   const relay = (update: Uint8Array, origin: unknown) => {

@@ -33,7 +33,13 @@ export const joinReplySchema = z.union([
 ])
 export type JoinReply = { ok: true; role: RoomRole } | { ok: false; error: { code: string; message: string } }
 
+/** `rooms:changed`: something in a room I belong to changed; the rooms list fetches that room again. */
+export const roomsChangedEventSchema = z.object({ roomId: roomIdSchema })
+export type RoomsChangedEvent = z.output<typeof roomsChangedEventSchema>
+
 export interface ClientToServerEvents {
+  /** The rooms list is open: send me `rooms:changed` for every room I belong to. */
+  'rooms:watch': () => void
   /** Join a room's broadcasts; the latest surface and solve state follow the reply. */
   'room:join': (body: RoomRef, ack: (reply: JoinReply) => void) => void
   'room:leave': (body: RoomRef) => void
@@ -47,6 +53,7 @@ export interface ServerToClientEvents {
   pattern: (e: PatternEvent) => void
   'pin:changed': (e: PinChangedEvent) => void
   'pin:deleted': (e: PinDeletedEvent) => void
+  'rooms:changed': (e: RoomsChangedEvent) => void
 }
 
 export type ServerEvent = keyof ServerToClientEvents
@@ -66,6 +73,7 @@ export const serverEventSchemas: { [E in ServerEvent]: z.ZodType<ServerPayload<E
   pattern: patternEventSchema,
   'pin:changed': pinChangedEventSchema,
   'pin:deleted': pinDeletedEventSchema,
+  'rooms:changed': roomsChangedEventSchema,
 }
 
 /**

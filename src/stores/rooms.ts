@@ -2,6 +2,7 @@ import { ref } from 'vue'
 import type { StarterKey } from '../../shared/room-doc/starters'
 import { defineStore } from 'pinia'
 import * as api from '../api/http'
+import { listActivity, roomActivity, watchRooms, type RoomActivity } from '../api/activity'
 import type { RoomDetail, RoomSummary } from '../api/http'
 
 function summaryOf(room: RoomDetail): RoomSummary {
@@ -12,6 +13,8 @@ function summaryOf(room: RoomDetail): RoomSummary {
 export const useRoomsStore = defineStore('rooms', () => {
   const rooms = ref<RoomSummary[]>([])
   const loading = ref(false)
+  /** Per room: last change, open pins, settle state, people now, picture (issue 16). */
+  const activity = ref<Record<string, RoomActivity>>({})
 
   /** Fetch the rooms I belong to, replacing the list shown. */
   async function list(): Promise<RoomSummary[]> {
@@ -44,10 +47,26 @@ export const useRoomsStore = defineStore('rooms', () => {
     rooms.value = rooms.value.filter((r) => r.id !== id)
   }
 
+  /** Fetch every room's activity for the list. */
+  async function loadActivity(): Promise<void> {
+    activity.value = await listActivity()
+  }
+
+  /** Keeps the list current while it is open: each changed room is fetched again. Returns the stop. */
+  function watch(): () => void {
+    return watchRooms((roomId) => {
+      void (async () => {
+        if (!rooms.value.some((r) => r.id === roomId)) await list()
+        activity.value = { ...activity.value, [roomId]: await roomActivity(roomId) }
+      })().catch(() => undefined) // a room just left or deleted: the next full load drops it
+    })
+  }
+
   /** Forget every room, e.g. after signing out, so the next user never sees them. */
   function clear(): void {
     rooms.value = []
+    activity.value = {}
   }
 
-  return { rooms, loading, list, create, rename, remove, clear }
+  return { rooms, loading, activity, list, loadActivity, watch, create, rename, remove, clear }
 })
