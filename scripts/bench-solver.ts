@@ -19,6 +19,7 @@ import { rowCoordinates, SpdSystem } from '../shared/solver/spd-system'
 import { meshFrame } from '../shared/mesh'
 import type { MembraneMesh } from '../shared/types'
 import type { Frame } from '../shared/types'
+import { patternBench } from './bench-pattern'
 
 const SPAN = 10
 
@@ -187,8 +188,10 @@ function round(x: number): number {
   return Math.round(x * 10) / 10
 }
 
+const pattern = patternBench()
 const calibrationAfter = calibrationMs()
 console.table(rows)
+console.table([pattern])
 const load = loadavg()
 console.log(
   `calibration loop ${round(calibrationBefore)} ms before, ${round(calibrationAfter)} ms after (≈100 ms on an idle core)`,
@@ -205,6 +208,7 @@ writeFileSync(
       calibrationMs: [calibrationBefore, calibrationAfter],
       runs,
       rows,
+      pattern,
     },
     null,
     2,

@@ -8,6 +8,7 @@ import * as Y from 'yjs'
 import { WebsocketProvider } from 'y-websocket'
 import type { Awareness } from 'y-protocols/awareness'
 import { frameMap } from '../../shared/room-doc/schema'
+import { patternMap } from '../../shared/room-doc/seams'
 import type { RoomRole } from './schemas'
 import { can } from '../../shared/protocol'
 
@@ -55,11 +56,11 @@ export function syncBase(loc: { protocol: string; host: string } = pageLocation(
 export const CAPTURE_TIMEOUT_MS = 400
 
 /**
- * An undo manager over the frame that tracks only transactions made with `origin`, so undo never
+ * An undo manager over the frame and the seams that tracks only transactions made with `origin`, so undo never
  * reverts a peer's edit. Edits in shared/room-doc/edits.ts take the origin as their last argument.
  */
 export function createUndoManager(doc: Y.Doc, origin: object): Y.UndoManager {
-  return new Y.UndoManager(frameMap(doc), { trackedOrigins: new Set([origin]), captureTimeout: CAPTURE_TIMEOUT_MS })
+  return new Y.UndoManager([frameMap(doc), patternMap(doc)], { trackedOrigins: new Set([origin]), captureTimeout: CAPTURE_TIMEOUT_MS })
 }
 
 export interface Collaboration {

@@ -10,6 +10,7 @@ import {
   parseServerEvent,
   type ClientToServerEvents,
   type JoinReply,
+  type PatternEvent,
   type ServerEvent,
   type ServerPayload,
   type ServerToClientEvents,
@@ -23,6 +24,8 @@ export type StreamSocket = Socket<ServerToClientEvents, ClientToServerEvents>
 export interface StreamHandlers {
   surface(msg: SurfaceEvent): void
   solveState(msg: SolveStateEvent): void
+  /** The room's flat patterns after a settle, or why there are none. */
+  pattern(msg: PatternEvent): void
   solveProgress(msg: SolveProgressEvent): void
   /** Connection changes and messages that could not be read. */
   status(connected: boolean, error?: string): void
@@ -73,6 +76,7 @@ export function connectSurfaceStream(handlers: StreamHandlers): SurfaceStream {
   onServerEvent(socket, 'surface', handlers.surface, bad)
   onServerEvent(socket, 'solve:state', handlers.solveState, bad)
   onServerEvent(socket, 'solve:progress', handlers.solveProgress, bad)
+  onServerEvent(socket, 'pattern', handlers.pattern, bad)
   return {
     socket,
     join: (roomId) =>

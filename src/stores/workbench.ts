@@ -17,7 +17,9 @@ import {
 } from '../api/collaboration'
 import type { Socket } from 'socket.io-client'
 import { connectSurfaceStream, type SurfaceStream } from '../api/socket'
-import { can, type RoomRole, type SolveStateEvent, type SurfaceEvent } from '../../shared/protocol'
+import { readRoomCuts, type RoomCutsRead } from '../../shared/room-doc/seams'
+import type * as Y from 'yjs'
+import { can, type PatternEvent, type RoomRole, type SolveStateEvent, type SurfaceEvent } from '../../shared/protocol'
 import { getUnderlayMeta, roomPath, type UnderlayMeta } from '../api/team'
 import type { ColourMode } from '../lib/colour-maps'
 import { frameRows, readFrameView, type FrameView } from '../lib/frame-view'
@@ -51,6 +53,9 @@ export const useWorkbenchStore = defineStore('workbench', () => {
   const selection = ref<HeldPoint | null>(null)
   /** The latest solved surface as streamed (typed arrays, figures, solver report). */
   const surface = shallowRef<SurfaceEvent | null>(null)
+  /** The room's flat patterns (last 'pattern' message) and its seams as read from the document. */
+  const pattern = shallowRef<PatternEvent | null>(null)
+  const cuts = shallowRef<RoomCutsRead>(null)
   const figures = computed(() => surface.value?.figures ?? null)
   const status = ref<SolverStatus>({ phase: 'offline', version: 0 })
   const sync = ref<SyncStatus>('connecting')
@@ -112,6 +117,7 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     clientId.value = c.doc.clientID
     const refresh = (): void => {
       frame.value = readFrameView(c.doc)
+      cuts.value = readRoomCuts(c.doc)
       // a peer may delete the point I have selected: let go of it rather than hold a ghost
       const sel = selection.value
       if (sel && !frame.value.loops.some((l) => l.id === sel.loopId && l.points.some((p) => p.id === sel.pointId)))
@@ -138,6 +144,9 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     const s = connectSurfaceStream({
       surface: onSurface,
       solveState: onSolveState,
+      pattern: (m) => {
+        if (m.roomId === roomId.value && (!pattern.value || m.version >= pattern.value.version)) pattern.value = m
+      },
       solveProgress: (m) => {
         if (m.roomId === roomId.value && status.value.phase === 'settling')
           status.value = { ...status.value, iteration: m.iteration, residual: m.residual }
@@ -193,6 +202,8 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     roomId.value = null
     frame.value = emptyFrame()
     surface.value = null
+    pattern.value = null
+    cuts.value = null
     selection.value = null
     peers.value = []
     underlay.value = null
@@ -214,6 +225,9 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     lastOwnClock.value = ownClock(c.doc)
     return result
   }
+
+  /** Runs a seams edit (shared/room-doc/seams.ts) as our own undoable edit; undefined if read-only. */
+  const editSeams = <T>(run: (doc: Y.Doc, origin: object) => T): T | undefined => edit((c) => run(c.doc, c.origin))
 
   /** Moves a frame point (m). */
   const move = (loopId: string, pointId: string, to: { x?: number; y?: number; z?: number }) =>
@@ -291,6 +305,9 @@ export const useWorkbenchStore = defineStore('workbench', () => {
     rows,
     selection,
     surface,
+    pattern,
+    cuts,
+    editSeams,
     figures,
     status,
     sync,
