@@ -6,6 +6,7 @@ import helmet from 'helmet'
 import type { DataSource } from 'typeorm'
 import type { Config } from './config.js'
 import { apiNotFound, errorHandler } from './lib/error-handler.js'
+import { jsonDepthLimit } from './lib/json-depth.js'
 import { createPassport } from './modules/auth/auth-passport.js'
 import { authRoutes } from './modules/auth/auth-routes.js'
 import { authService } from './modules/auth/auth-service.js'
@@ -103,7 +104,7 @@ export function createApp({
   })
 
   const api = express.Router()
-  api.use(express.json({ limit: '1mb' }))
+  api.use(express.json({ limit: '1mb' }), jsonDepthLimit())
   // Before the session, which itself needs the database.
   // The proxy's health check in scale-out names the instance and its links.
   api.get('/health', async (_req, res) => {
@@ -123,9 +124,15 @@ export function createApp({
   api.use(announceRoomWrites(writes))
   api.use(
     '/auth',
-    authRoutes({ auth, passport, csrfToken: (req) => generateToken(req), onSignOut: (userId) => live.closeRoomSockets(undefined, userId) }),
+    authRoutes({
+      auth,
+      passport,
+      csrfToken: (req) => generateToken(req),
+      onSignOut: (userId) => live.closeRoomSockets(undefined, userId),
+      limits: { signUpsPerHour: config.RATE_SIGNUPS_PER_HOUR, signInFailuresPerIp: config.RATE_SIGNIN_FAILURES_PER_IP },
+    }),
   )
-  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource), live))
+  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource), live, { roomsPerHour: config.RATE_ROOMS_PER_HOUR }))
   api.use(teamworkRoutes({ config, dataSource, live }))
   app.use('/api', api)
   // Routers added to `api` later still run before these: they live inside the mounted router.

@@ -1,6 +1,8 @@
 import { hostname } from 'node:os'
 import { z } from 'zod'
 
+const limit = z.coerce.number().int().min(1, 'at least 1').max(1_000_000, 'at most 1000000')
+
 // Read once at start. A wrong value stops the server with the variable's name and the reason,
 // rather than failing later inside a request.
 const schema = z
@@ -27,6 +29,13 @@ const schema = z
       .optional(),
     // a stable name for this instance in /api/health and logs; defaults to host:port
     INSTANCE_ID: z.string().regex(/^[A-Za-z0-9_.:-]{1,64}$/, 'letters, digits, _ . : - only (1–64)').optional(),
+    // Abuse limits (issue 12): generous for a team, small for a script. Sign-ups per client address
+    // per hour; rooms and invites per signed-in user per hour; failed sign-ins per address per 15
+    // minutes summed over every e-mail tried (password spraying), besides 10 per address + e-mail.
+    RATE_SIGNUPS_PER_HOUR: limit.default(20),
+    RATE_ROOMS_PER_HOUR: limit.default(30),
+    RATE_INVITES_PER_HOUR: limit.default(50),
+    RATE_SIGNIN_FAILURES_PER_IP: limit.default(50),
   })
   .transform((env, ctx) => {
     if (!env.SESSION_SECRET && env.NODE_ENV === 'production') {

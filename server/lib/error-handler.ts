@@ -14,6 +14,10 @@ interface HttpLikeError {
   type?: string
   code?: string
   message?: string
+  /** http-errors: true when the message is meant for the client. */
+  expose?: boolean
+  /** body-parser's charset.unsupported error names the charset it refused. */
+  charset?: string
   /** TypeORM's QueryFailedError keeps the mysql2 error here. */
   driverError?: { code?: string }
 }
@@ -39,11 +43,27 @@ function toResponse(err: unknown): { status: number; body: ErrorBody } {
   if (e.type === 'entity.parse.failed') {
     return { status: 400, body: { error: { code: 'invalid_json', message: 'The request body is not valid JSON.' } } }
   }
+  // Express's router decodes path parameters and marks a malformed %-sequence as a 400 URIError.
+  if (err instanceof URIError) {
+    return { status: 400, body: { error: { code: 'bad_url', message: 'The address holds a malformed percent-encoding: each % must start a %XX byte of valid UTF-8.' } } }
+  }
+  if (e.type === 'charset.unsupported') {
+    const charset = String(e.charset ?? '').slice(0, 40)
+    return { status: 400, body: { error: { code: 'unsupported_charset', message: `The request body's charset "${charset}" is not supported: send JSON as UTF-8.` } } }
+  }
+  if (e.type === 'encoding.unsupported') {
+    return { status: 400, body: { error: { code: 'unsupported_encoding', message: 'The request body\'s Content-Encoding is not supported: send it as identity, gzip, deflate or br.' } } }
+  }
   if (e.type === 'entity.too.large') {
     return { status: 413, body: { error: { code: 'too_large', message: 'The request body is too large.' } } }
   }
   if (DB_DOWN.has(e.code ?? e.driverError?.code ?? '')) {
     return { status: 503, body: { error: { code: 'db_unavailable', message: 'The database is not reachable right now; nothing was saved. Try again in a moment.' } } }
+  }
+  // Any other client error from the body parser or router: its status and its own (exposable) message.
+  const status = e.status ?? e.statusCode ?? 500
+  if (e.expose && status >= 400 && status < 500) {
+    return { status, body: { error: { code: 'bad_request', message: String(e.message ?? 'Bad request.').slice(0, 200) } } }
   }
   return { status: 500, body: { error: { code: 'internal', message: 'Something went wrong on the server.' } } }
 }

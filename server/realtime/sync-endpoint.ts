@@ -13,6 +13,7 @@ import * as syncProtocol from 'y-protocols/sync'
 import { WebSocketServer, type WebSocket } from 'ws'
 import * as Y from 'yjs'
 import { logger } from '../lib/logger.js'
+import { decodePathSegment } from '../lib/url-path.js'
 import { can } from '../../shared/protocol/index.js'
 import { parseRoomId, roomRoleOf, sessionUser, type AccessDeps } from './access.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
@@ -73,7 +74,9 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
     const origin = req.headers.origin
     if (!origin || !opts.origins().has(origin)) return refuse(socket, 403, 'Forbidden')
     const path = new URL(req.url ?? '/', 'http://localhost').pathname
-    const roomId = parseRoomId(decodeURIComponent(path.slice(PATH_PREFIX.length)))
+    const segment = decodePathSegment(path.slice(PATH_PREFIX.length))
+    if (segment === null) return refuse(socket, 400, 'Bad Request: malformed percent-encoding in the room id')
+    const roomId = parseRoomId(segment)
     if (!roomId) return refuse(socket, 404, 'Not Found')
     const user = await sessionUser(req, opts.access)
     if (!user) return refuse(socket, 401, 'Unauthorized')

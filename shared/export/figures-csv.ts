@@ -9,12 +9,23 @@ function cell(s: string): string {
   return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
 }
 
+/**
+ * A text cell (a pin's comment, a name, a header). Text a spreadsheet would run as a formula
+ * (leading = + - @, or a tab or CR) gets a leading apostrophe, as OWASP's "CSV Injection" page
+ * advises. Numbers go through cell() alone, so "-0.25" stays a number.
+ */
+export function csvText(s: string): string {
+  return cell(/^[=+\-@\t\r]/.test(s) ? `'${s}` : s)
+}
+
 /** One table as CSV lines; "not applicable" cells are left empty. */
 export function tableToCsv(t: Readonly<ReportTable>): string[] {
   const lines = [`# ${t.title}`]
   if (t.note) lines.push(`# ${t.note}`)
-  lines.push(t.columns.map((c) => cell(columnHeader(c))).join(','))
-  for (const row of t.rows) lines.push(row.map((v, i) => (v === null ? '' : cell(formatCell(v, t.columns[i]!)))).join(','))
+  lines.push(t.columns.map((c) => csvText(columnHeader(c))).join(','))
+  for (const row of t.rows) {
+    lines.push(row.map((v, i) => (v === null ? '' : typeof v === 'string' ? csvText(v) : cell(formatCell(v, t.columns[i]!)))).join(','))
+  }
   return lines
 }
 

@@ -156,5 +156,5 @@ export async function getUnderlayMeta(roomId: string): Promise<UnderlayMeta | nu
 /** DELETE /api/rooms/:id/underlay. */
 export const deleteUnderlay = (roomId: string) => request('DELETE', `${roomPath(roomId)}/underlay`, undefined, null)
 
-/** GET /api/dev/mailbox: the fake SMTP server's messages (404 in production). */
+/** GET /api/dev/mailbox: the fake SMTP server's messages to the signed-in user (404 in production). */
 export const devMailbox = async () => (await request('GET', '/api/dev/mailbox', undefined, replies.mailbox)).messages

@@ -64,12 +64,13 @@ export const router = createRouter({
       props: true,
       meta: { public: true, title: 'Invite' },
     },
-    // Public like its API: outside production the fake SMTP inbox, in production a "not available" note.
+    // Signed in like its API: outside production the user's own mail from the fake SMTP server, in
+    // production a "not available" note.
     {
       path: '/dev/mailbox',
       name: 'dev-mailbox',
       component: () => import('../views/MailboxView.vue'),
-      meta: { public: true, title: 'Dev mailbox' },
+      meta: { title: 'Dev mailbox' },
     },
     {
       path: '/:missing(.*)*',

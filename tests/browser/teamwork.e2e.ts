@@ -4,8 +4,8 @@ import { baseUrl, launchBrowser, type LaunchedBrowser } from '../helpers/browser
 import { demoPassword } from './demo-accounts'
 import { openRoomTab } from './room-tabs'
 
-// Issue 5 end to end, two people in two browsers: the owner invites a new address, the mail lands
-// in the dev mailbox, the guest signs up through the link and accepts, pins a comment, the owner
+// Issue 5 end to end, two people in two browsers: the owner invites a new address, the guest signs
+// up, finds the mail in their dev mailbox, signs in through the link and accepts, pins a comment, the owner
 // replies and resolves (seen live by the guest), saves two snapshots and compares them.
 const OWNER = 'owner@demo.veilroom.test'
 const ROOM = 'Four-point shade sail — Example Terrace B'
@@ -74,22 +74,31 @@ describe('team work: invite, pins, snapshots', () => {
     await page.getByTestId('pending-invites').getByText(GUEST).waitFor()
   })
 
-  it('the invite mail appears in the dev mailbox with a link', async () => {
-    const { page } = owner
+  it('the guest signs up and finds the invite mail in their own dev mailbox; the owner cannot read it', async () => {
+    const { page } = guest
+    await page.goto(`${baseUrl()}/sign-up`)
+    await page.fill('input[name=name]', 'Guest Reviewer')
+    await page.fill('input[name=email]', GUEST)
+    await page.fill('input[name=password]', GUEST_PASSWORD)
+    await page.click('button[type=submit]')
+    await page.waitForURL(/\/rooms$/)
     await page.goto(`${baseUrl()}/dev/mailbox`)
     const mail = page.getByTestId('mail-message').filter({ hasText: GUEST }).first()
     await mail.waitFor()
     inviteLink = (await mail.getByTestId('mail-link').first().getAttribute('href')) ?? ''
     expect(inviteLink).toMatch(/\/invite\/[A-Za-z0-9_-]{43}$/)
+    // The mailbox shows each person only the mail addressed to them (issue 12, item 2).
+    const ownerSees = await owner.page.evaluate(async () => ((await (await fetch('/api/dev/mailbox')).json()) as { messages: { to: string }[] }).messages.map((m) => m.to))
+    expect(ownerSees.filter((to) => to.includes(GUEST))).toEqual([])
   })
 
-  it('the guest opens the link signed out, signs up, comes back and joins as reviewer', async () => {
+  it('the guest, signed out, opens the link, signs in through it, comes back and joins as reviewer', async () => {
     const { page } = guest
+    expect((await apiCall(page, 'POST', '/api/auth/signout', {})).status).toBe(204)
     // PUBLIC_URL may differ from the test server's address: keep the path, use the server under test.
     await page.goto(`${baseUrl()}${new URL(inviteLink).pathname}`)
     expect(await page.getByTestId('invite-room').textContent()).toBe(ROOM)
-    await page.getByTestId('invite-sign-up').click()
-    await page.fill('input[name=name]', 'Guest Reviewer')
+    await page.getByTestId('invite-sign-in').click()
     await page.fill('input[name=email]', GUEST)
     await page.fill('input[name=password]', GUEST_PASSWORD)
     await page.click('button[type=submit]')

@@ -2,17 +2,27 @@ import { randomUUID } from 'node:crypto'
 import { loadConfig } from '../../server/config.js'
 import { start, type Running, type StartOptions } from '../../server/main.js'
 
+// Every test signs up and creates rooms from 127.0.0.1: the abuse limits are raised unless a test
+// passes its own (tests/security/abuse-limits.test.ts does).
+const roomyLimits = {
+  RATE_SIGNUPS_PER_HOUR: '100000',
+  RATE_ROOMS_PER_HOUR: '100000',
+  RATE_INVITES_PER_HOUR: '100000',
+  RATE_SIGNIN_FAILURES_PER_IP: '100000',
+}
+
 /**
  * Starts the real app on port 0 against the per-run test database that scripts/test.mjs creates
  * (DB_PORT 3308, DB_NAME veilroom_test_<time>). Refuses any other database, so a test can never
- * write into development data.
+ * write into development data. `env` overrides variables for this server (e.g. the abuse limits).
  */
-export async function startTestServer(options: Pick<StartOptions, 'tuning' | 'live'> = {}): Promise<Running> {
-  const config = loadConfig({ ...process.env, NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn' })
+export async function startTestServer(options: Pick<StartOptions, 'tuning' | 'live'> & { env?: Record<string, string> } = {}): Promise<Running> {
+  const { env = {}, ...startOptions } = options
+  const config = loadConfig({ ...process.env, ...roomyLimits, NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn', ...env })
   if (!config.DB_NAME.startsWith('veilroom_test_')) {
     throw new Error(`DB_NAME=${config.DB_NAME} is not a test database; run tests with \`npm test\` (see DEVELOPERS.md)`)
   }
-  return start({ ...options, port: 0, config })
+  return start({ ...startOptions, port: 0, config })
 }
 
 /** An address nobody else in this run uses. */

@@ -29,7 +29,8 @@ export async function startLive(tuning: RealtimeDeps['tuning'] = {}): Promise<Li
   return { running, realtime: running.realtime, url: running.url, stop: () => running.stop() }
 }
 
-const PASSWORD = 'live-room-test-password'
+/** The password of every user makeUser inserts. */
+export const PASSWORD = 'live-room-test-password'
 
 /** Inserts a user (bcrypt cost 4: these tests are about sockets, not password storage). */
 export async function makeUser(ds: DataSource, name: string): Promise<{ id: string; email: string }> {

@@ -90,8 +90,8 @@ const routes: Record<string, Rule> = {
   'GET /api/rooms/:id/snapshots/:sid/surface.stl': 'viewer',
   'GET /api/rooms/:id/figures.csv': 'viewer',
   'GET /api/rooms/:id/snapshots/:sid/figures.csv': 'viewer',
-  // Outside production only (404 there): mail may hold invite links. Public on a dev machine.
-  'GET /api/dev/mailbox': 'public',
+  // Outside production only (404 there); signed in, and each user sees only mail addressed to them.
+  'GET /api/dev/mailbox': 'user',
   // The client app (SPA fallback), present when dist/ is built.
   'GET /{*path}': 'public',
 }

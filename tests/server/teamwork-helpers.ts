@@ -55,7 +55,7 @@ export interface TeamworkServer {
  * files mail into the test database (read back through GET /api/dev/mailbox), and the live room
  * replaced by a recording stand-in (optionally forwarding to `inner`).
  */
-export async function startTeamworkServer(inner?: Partial<RoomLive>): Promise<TeamworkServer> {
+export async function startTeamworkServer(inner?: Partial<RoomLive>, env: Record<string, string> = {}): Promise<TeamworkServer> {
   const config = loadConfig({ ...process.env, NODE_ENV: 'test' })
   const mailData = await createDataSource(config).initialize()
   const smtp = await startFakeSmtp(dbMailbox(mailData), 0)
@@ -63,7 +63,7 @@ export async function startTeamworkServer(inner?: Partial<RoomLive>): Promise<Te
   process.env.SMTP_HOST = '127.0.0.1'
   process.env.SMTP_PORT = String(smtp.port)
   const live = recordingLive(inner)
-  const server = await startTestServer({ live: () => live })
+  const server = await startTestServer({ live: () => live, env })
   return {
     server,
     url: server.url,
@@ -110,17 +110,24 @@ export async function addMember(dataSource: DataSource, roomId: string, userId: 
   await dataSource.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId, userId, role })
 }
 
+// GET /api/dev/mailbox shows only the signed-in user's own mail (tests/security/dev-mailbox.test.ts),
+// and an invitee often has no account yet: these helpers read the fake server's store directly.
+
+/** The newest 500 messages with `to` among their recipients, straight from the store. */
+async function stored(tw: TeamworkServer, to: string) {
+  const wanted = to.toLowerCase()
+  return (await dbMailbox(tw.server.dataSource).list(500)).filter((m) => m.to.toLowerCase().split(', ').includes(wanted))
+}
+
 /** Ids of the mail already delivered to `to`, so a test can wait for the next one. */
-export async function mailIds(client: ApiClient, to: string): Promise<Set<string>> {
-  const reply = await client.get(`/api/dev/mailbox?to=${encodeURIComponent(to)}`)
-  return new Set((reply.body.messages ?? []).map((m: { id: string }) => m.id))
+export async function mailIds(tw: TeamworkServer, to: string): Promise<Set<string>> {
+  return new Set((await stored(tw, to)).map((m) => m.id))
 }
 
 /** The newest mail to `to` not in `seen`, waiting briefly (SMTP delivery is asynchronous). */
-export async function mailTo(client: ApiClient, to: string, seen = new Set<string>()): Promise<{ subject: string; text: string; html?: string }> {
+export async function mailTo(tw: TeamworkServer, to: string, seen = new Set<string>()): Promise<{ subject: string; text: string; html?: string }> {
   for (let i = 0; i < 50; i++) {
-    const reply = await client.get(`/api/dev/mailbox?to=${encodeURIComponent(to)}`)
-    const m = (reply.body.messages ?? []).find((x: { id: string }) => !seen.has(x.id))
+    const m = (await stored(tw, to)).find((x) => !seen.has(x.id))
     if (m) return m
     await new Promise((r) => setTimeout(r, 100))
   }

@@ -4,6 +4,7 @@ import { frameToJson } from '../../../shared/frame/index.js'
 import type { ReportPin } from '../../../shared/report/index.js'
 import type { Frame, SurfaceResult } from '../../../shared/types.js'
 import { CAUTION } from '../../../shared/protocol/index.js'
+import { oneLine } from '../../lib/text-fields.js'
 
 export type DownloadKind = 'frame.json' | 'surface.obj' | 'surface.stl' | 'figures.csv'
 export const downloadKinds: readonly DownloadKind[] = ['frame.json', 'surface.obj', 'surface.stl', 'figures.csv']
@@ -41,7 +42,8 @@ export interface DownloadData {
 
 /** The body and content type of one download; OBJ, STL and CSV carry the caution (shared/export). */
 export function renderDownload(kind: DownloadKind, data: DownloadData): { body: string; type: string } {
-  const header = `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n`
+  // A room named before names were checked may still hold a line break: keep the header one line.
+  const header = `# Veilroom — ${oneLine(data.title)} — exported ${new Date().toISOString()}\n`
   switch (kind) {
     case 'frame.json':
       return { body: frameDownload(data.frame!), type: 'application/json; charset=utf-8' }
@@ -51,7 +53,7 @@ export function renderDownload(kind: DownloadKind, data: DownloadData): { body: 
       return { body: toStl(data.surface!), type: 'model/stl' }
     case 'figures.csv':
       return {
-        body: `# Veilroom — ${data.title} — exported ${new Date().toISOString()}\n` +
+        body: header +
           figuresToCsv({ frame: data.frame!, figures: data.surface!.figures, solver: data.surface!.solver, pins: data.pins ?? [] }, CAUTION),
         type: 'text/csv; charset=utf-8',
       }

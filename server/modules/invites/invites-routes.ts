@@ -1,6 +1,7 @@
 import { Router } from 'express'
 import type { DataSource } from 'typeorm'
 import { AppError } from '../../lib/app-error.js'
+import { HOUR_MS, limiter } from '../../lib/rate-limits.js'
 import { requireRoomAction, requireUser, roomRole } from '../rooms/room-access.js'
 import type { InvitesService } from './invites-service.js'
 import { createInviteBody, inviteToken, memberRoleBody, uuidParam } from './invites-schema.js'
@@ -18,12 +19,19 @@ const parseId = (raw: unknown, code: string, what: string): string => {
 }
 
 /** Invites (/api/rooms/:id/invites, /api/invites/:token) and member roles (/api/rooms/:id/members/:userId). */
-export function invitesRoutes(dataSource: DataSource, invites: InvitesService, members: ReturnType<typeof membersService>): Router {
+export function invitesRoutes(
+  dataSource: DataSource,
+  invites: InvitesService,
+  members: ReturnType<typeof membersService>,
+  limits: { invitesPerHour: number },
+): Router {
   const router = Router()
   const owner = requireRoomAction(dataSource, 'manageMembers')
   const viewer = requireRoomAction(dataSource, 'read')
+  // Every invite sends an e-mail from our address: counted per inviting user, over all their rooms.
+  const inviteLimiter = limiter({ what: 'invites sent', windowMs: HOUR_MS, limit: limits.invitesPerHour, key: 'user' })
 
-  router.post('/rooms/:id/invites', owner, async (req, res) => {
+  router.post('/rooms/:id/invites', owner, inviteLimiter, async (req, res) => {
     const body = createInviteBody.parse(req.body)
     const invite = await invites.create(req.params.id as string, body, req.user!)
     res.status(201).json({ invite })
@@ -43,7 +51,7 @@ export function invitesRoutes(dataSource: DataSource, invites: InvitesService, m
   })
 
   router.post('/invites/:token/accept', requireUser, async (req, res) => {
-    res.json(await invites.accept(parseToken(req.params.token), req.user!.id))
+    res.json(await invites.accept(parseToken(req.params.token), req.user!))
   })
 
   router.patch('/rooms/:id/members/:userId', owner, async (req, res) => {

@@ -89,14 +89,24 @@ export function invitesService({ dataSource, mailer, publicUrl }: InviteDeps) {
 
     /**
      * Uses the invite once (the row is locked, so two tabs cannot both accept) and makes the user a
-     * member; an existing member keeps the higher of the two roles.
+     * member; an existing member keeps the higher of the two roles. Only the account with the
+     * invited address may accept (403 invite_other_address, and the invite stays usable): a
+     * forwarded or leaked link does not let another account in, nor raise a viewer to owner.
      */
-    async accept(token: string, userId: string): Promise<{ roomId: string; role: RoomRole }> {
+    async accept(token: string, user: { id: string; email: string }): Promise<{ roomId: string; role: RoomRole }> {
+      const userId = user.id
       return dataSource.transaction(async (em) => {
         const q = locked(em)
         const invite = await q.inviteByHash(hashInviteToken(token))
         if (!invite) throw inviteNotFound()
         assertUsable(invite)
+        if (invite.email.trim().toLowerCase() !== user.email.trim().toLowerCase()) {
+          throw new AppError(
+            'invite_other_address',
+            403,
+            `This invite was sent to ${invite.email}, and you are signed in as ${user.email}. Sign in with the invited address to accept it.`,
+          )
+        }
         await q.markAccepted(invite.id)
         const member = await q.membership(invite.roomId, userId)
         if (!member) {

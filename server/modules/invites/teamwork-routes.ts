@@ -15,7 +15,7 @@ import { invitesService } from './invites-service.js'
 import { membersService } from './members-service.js'
 
 export interface TeamworkDeps {
-  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV'>
+  config: Pick<Config, 'PUBLIC_URL' | 'NODE_ENV' | 'RATE_INVITES_PER_HOUR'>
   dataSource: DataSource
   /** The live room (server/realtime): frames, surfaces, room broadcasts, closing sockets. */
   live: LiveRoomPort
@@ -31,7 +31,7 @@ export function teamworkRoutes({ config, dataSource, live, mail = loadMailConfig
   const router = Router()
   const mailer = createMailer(mail)
   const invites = invitesService({ dataSource, mailer, publicUrl: config.PUBLIC_URL })
-  router.use(invitesRoutes(dataSource, invites, membersService(dataSource, live)))
+  router.use(invitesRoutes(dataSource, invites, membersService(dataSource, live), { invitesPerHour: config.RATE_INVITES_PER_HOUR }))
   router.use(pinsRoutes(dataSource, pinsService(dataSource, live)))
   const snapshots = snapshotsService(dataSource, live)
   router.use(snapshotsRoutes(dataSource, snapshots))

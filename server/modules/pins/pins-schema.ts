@@ -1,6 +1,7 @@
 import { z } from 'zod'
+import { multiLineField } from '../../lib/text-fields.js'
 
-const body = z.string().trim().min(1, 'required').max(4000, 'at most 4000 characters')
+const body = multiLineField(4000).min(1, 'required')
 // z.number() refuses NaN and ±Infinity, so a pin always sits at a real point.
 const coordinate = z.number('a finite number in metres').min(-1e6, 'within ±1 000 000 m').max(1e6, 'within ±1 000 000 m')
 

@@ -1,8 +1,9 @@
 import { z } from 'zod'
 import { STARTERS, type StarterKey } from '../../../shared/room-doc/starters.js'
+import { multiLineField, nameField } from '../../lib/text-fields.js'
 
-const name = z.string().trim().min(1, 'required').max(120, 'at most 120 characters')
-const description = z.string().trim().max(2000, 'at most 2000 characters')
+const name = nameField(120)
+const description = multiLineField(2000)
 
 const starterKeys = STARTERS.map((s) => s.key) as [StarterKey, ...StarterKey[]]
 

@@ -1,8 +1,9 @@
 import { z } from 'zod'
+import { multiLineField, nameField } from '../../lib/text-fields.js'
 
 export const createSnapshotBody = z.object({
-  name: z.string().trim().min(1, 'required').max(120, 'at most 120 characters'),
-  note: z.string().trim().max(2000, 'at most 2000 characters').default(''),
+  name: nameField(120),
+  note: multiLineField(2000).default(''),
 })
 
 export type CreateSnapshotBody = z.output<typeof createSnapshotBody>
