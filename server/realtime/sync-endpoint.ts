@@ -222,6 +222,32 @@ function awarenessClients(update: Uint8Array): number[] {
   return ids
 }
 
+/**
+ * Whether bytes can be a V1 update. A V2 update always starts with its feature flag, 0; a V1 update
+ * starts with its count of clients with structs, so a V1 one starting with 0 carries only a delete
+ * set (count, then per client: id, count, then clock/length pairs) that must end exactly at the end.
+ */
+export function isV1Update(update: Uint8Array): boolean {
+  if (update.length === 0) return false
+  if (update[0] !== 0) return true
+  try {
+    const d = decoding.createDecoder(update)
+    decoding.readVarUint(d)
+    const clients = decoding.readVarUint(d)
+    for (let i = 0; i < clients; i++) {
+      decoding.readVarUint(d)
+      const ranges = decoding.readVarUint(d)
+      for (let j = 0; j < ranges; j++) {
+        decoding.readVarUint(d)
+        decoding.readVarUint(d)
+      }
+    }
+    return !decoding.hasContent(d)
+  } catch {
+    return false
+  }
+}
+
 function toBytes(data: Buffer | ArrayBuffer | Buffer[]): Uint8Array {
   if (Array.isArray(data)) return new Uint8Array(Buffer.concat(data))
   return data instanceof ArrayBuffer ? new Uint8Array(data) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength)
@@ -251,6 +277,7 @@ function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId:
       })
     } else if (step === syncProtocol.messageYjsSyncStep2 || step === syncProtocol.messageYjsUpdate) {
       const update = decoding.readVarUint8Array(decoder)
+      if (!isV1Update(update)) throw new Error('not a V1 update (V2 and other formats are refused)')
       if (!readOnly) room.applyClientUpdate(update, ws)
     } else {
       throw new Error(`unknown sync step ${step}`)

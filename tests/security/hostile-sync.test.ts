@@ -12,7 +12,7 @@ import * as Y from 'yjs'
 import { movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import { connectDoc, makeRoom, makeUser, signIn, startLive, type DocClient, type Live } from '../realtime/live-helpers.js'
-import { openRaw, roundTrip, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
+import { editUpdate, openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
 
 let live: Live
 let cookie: string
@@ -102,7 +102,7 @@ describe('malformed sync messages', () => {
     await otherRoomStillRelays()
   })
 
-  it('never applies a V2-format update (read as V1 it carries nothing)', async () => {
+  it('refuses a V2-format update with a close (issue 12 item 12)', async () => {
     const { roomId, peer } = await attacker()
     const server = live.realtime.rooms.peek(roomId)!
     const before = JSON.stringify(readRawFrame(server.doc))
@@ -110,12 +110,21 @@ describe('malformed sync messages', () => {
     forged.getMap('frame').set('prestress', 'taken over')
     forged.getMap('junk').set('big', 'x'.repeat(10_000))
     peer.send(syncMessage(2, Y.encodeStateAsUpdateV2(forged)))
-    // Either the socket is closed or the bytes changed nothing; both leave the document as it was.
-    // The round trip proves the server has dealt with the forged message before we look.
-    await roundTrip(peer)
+    expect((await peer.closed).code).toBe(4400)
     expect(JSON.stringify(readRawFrame(server.doc))).toBe(before)
     expect(server.doc.getMap('junk').size).toBe(0)
     await otherRoomStillRelays()
+  })
+
+  it('still takes V1 updates that carry only deletions', async () => {
+    const { roomId, peer } = await attacker()
+    const points = loopsOf(peer.doc).get(0).get('points') as Y.Array<unknown>
+    const count = points.length
+    const update = editUpdate(peer.doc, () => points.delete(count - 1, 1))
+    expect(update[0]).toBe(0)
+    peer.send(syncMessage(2, update))
+    const server = live.realtime.rooms.peek(roomId)!
+    await waitFor(() => (loopsOf(server.doc).get(0).get('points') as Y.Array<unknown>).length === count - 1, 5000, 'deletion applied')
   })
 })
 
