@@ -209,17 +209,26 @@ function serve(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId: string)
   if (room.awareness.getStates().size > 0) send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
 }
 
-/** The client ids an awareness update speaks for (y-protocols layout: count, then id, clock, state). */
-function awarenessClients(update: Uint8Array): number[] {
+/** An awareness update's entries (y-protocols layout: count, then per client id, clock, JSON state). */
+function awarenessEntries(update: Uint8Array): { id: number; clock: number; state: string }[] {
   const decoder = decoding.createDecoder(update)
   const count = decoding.readVarUint(decoder)
-  const ids: number[] = []
+  const entries: { id: number; clock: number; state: string }[] = []
   for (let i = 0; i < count; i++) {
-    ids.push(decoding.readVarUint(decoder))
-    decoding.readVarUint(decoder)
-    decoding.readVarString(decoder)
+    entries.push({ id: decoding.readVarUint(decoder), clock: decoding.readVarUint(decoder), state: decoding.readVarString(decoder) })
   }
-  return ids
+  return entries
+}
+
+function encodeAwarenessEntries(entries: { id: number; clock: number; state: string }[]): Uint8Array {
+  const encoder = encoding.createEncoder()
+  encoding.writeVarUint(encoder, entries.length)
+  for (const e of entries) {
+    encoding.writeVarUint(encoder, e.id)
+    encoding.writeVarUint(encoder, e.clock)
+    encoding.writeVarString(encoder, e.state)
+  }
+  return encoding.toUint8Array(encoder)
 }
 
 /**
@@ -286,12 +295,15 @@ function handleMessage(ws: WebSocket, room: LiveRoom, readOnly: boolean, userId:
     const update = decoding.readVarUint8Array(decoder)
     // A user may speak only for client ids they introduced: no faking or removing others' presence.
     // The same user may take an id over (a reconnect while the old socket is not yet closed).
-    for (const id of awarenessClients(update)) {
-      const owner = room.presenceOwners.get(id)
-      if (owner !== undefined && owner.userId !== userId) throw new Error(`awareness for client ${id} of another user`)
-      room.presenceOwners.set(id, { socket: ws, userId })
-    }
-    awarenessProtocol.applyAwarenessUpdate(room.awareness, update, ws)
+    // Entries for another user's client are dropped, not punished: y-websocket clients rebroadcast
+    // the removal of a peer whose presence timed out, which a loaded room sees all the time.
+    const own = awarenessEntries(update).filter((e) => {
+      const owner = room.presenceOwners.get(e.id)
+      return owner === undefined || owner.userId === userId
+    })
+    if (own.length === 0) return
+    for (const e of own) room.presenceOwners.set(e.id, { socket: ws, userId })
+    awarenessProtocol.applyAwarenessUpdate(room.awareness, encodeAwarenessEntries(own), ws)
   } else if (type === MESSAGE_QUERY_AWARENESS) {
     send(ws, awarenessMessage(room, [...room.awareness.getStates().keys()]))
   } else {

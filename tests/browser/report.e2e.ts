@@ -107,7 +107,7 @@ describe('printed report (issue 15)', () => {
       await page.waitForFunction(() => document.querySelector('[data-testid=solver-status]')?.getAttribute('data-phase') === 'settled', null, { timeout: 60_000 })
       const pinToken = `pin${RUN}`, replyToken = `reply${RUN}`
       const pinText = `Check the anchor plate at this corner (${pinToken}).`
-      const pin = await api<{ pin: { id: string } }>(page, 'POST', `/api/rooms/${room.id}/pins`, { x: 1, y: 1, z: 1, docVersion: 0, body: pinText })
+      const pin = await api<{ pin: { id: string; author: { name: string } } }>(page, 'POST', `/api/rooms/${room.id}/pins`, { x: 1, y: 1, z: 1, docVersion: 0, body: pinText })
       expect(pin.status).toBe(201)
       const replyText = `Plate to follow the anchor table (${replyToken}).`
       expect((await api(page, 'POST', `/api/rooms/${room.id}/pins/${pin.json.pin.id}/replies`, { body: replyText })).status).toBe(201)
@@ -153,7 +153,8 @@ describe('printed report (issue 15)', () => {
         const pinPages = pagesWith(pages, new RegExp(pinToken))
         expect(pinPages, `${format}: pin`).toHaveLength(1)
         const pinPage = pages[pinPages[0]!]!.text
-        expect(pinPage).toMatch(/^\s*\d+\s+1\.00\s+1\.00\s+1\.00\s+Imogen\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC/m)
+        const author = esc(pin.json.pin.author.name.split(' ')[0]!)
+        expect(pinPage).toMatch(new RegExp(`^\\s*\\d+\\s+1\\.00\\s+1\\.00\\s+1\\.00\\s+${author}\\s+\\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d UTC`, 'm'))
         expect(pinPage).toContain(replyToken)
       }
     }, 180_000)

@@ -90,6 +90,10 @@ const routes: Record<string, Rule> = {
   'GET /api/rooms/:id/snapshots/:sid/surface.stl': 'viewer',
   'GET /api/rooms/:id/figures.csv': 'viewer',
   'GET /api/rooms/:id/snapshots/:sid/figures.csv': 'viewer',
+  // The rooms list's activity: the caller's own rooms only; one room's row and picture for its members.
+  'GET /api/activity/rooms': 'user',
+  'GET /api/activity/rooms/:id': 'viewer',
+  'GET /api/activity/rooms/:id/thumbnail.png': 'viewer',
   // Outside production only (404 there); signed in, and each user sees only mail addressed to them.
   'GET /api/dev/mailbox': 'user',
   // The client app (SPA fallback), present when dist/ is built.
@@ -196,8 +200,9 @@ describe('HTTP routes × callers', () => {
 })
 
 describe('socket.io events × callers', () => {
-  // protocol.md "Surface stream": room:join and room:leave are all a client may send.
-  const events = ['room:join', 'room:leave']
+  // shared/protocol/events.ts: room:join and room:leave, and rooms:watch (a signed-in user's own
+  // rooms list; it joins only that user's channel, so any signed-in caller may send it).
+  const events = ['room:join', 'room:leave', 'rooms:watch']
 
   it('lists every event the server listens to on a client socket', async () => {
     const socket = connectStream(live.url, cookies.owner)
