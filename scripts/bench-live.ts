@@ -61,7 +61,9 @@ if (process.argv.includes('--clients')) {
 }
 
 async function main(): Promise<void> {
-  const sizes = [2000, 20000].filter((v) => !process.env.BENCH_SIZES || process.env.BENCH_SIZES.split(',').includes(String(v)))
+  const sizes = [2000, 20000].filter(
+    (v) => !process.env.BENCH_SIZES || process.env.BENCH_SIZES.split(',').includes(String(v)),
+  )
   const scenarios = (process.env.BENCH_SCENARIOS ?? '2:1,10:1,30:1,10:5,30:10').split(',').map((pair) => {
     const [editors, rooms] = pair.split(':').map(Number)
     return { editors: editors!, rooms: rooms! }
@@ -104,7 +106,8 @@ async function main(): Promise<void> {
         results.push(r)
         const f = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—').padStart(7)
         console.log(
-          `~${vertices / 1000}k`.padEnd(5) + ` editors ${String(r.editors).padStart(2)} rooms ${String(rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
+          `~${vertices / 1000}k`.padEnd(5) +
+            ` editors ${String(r.editors).padStart(2)} rooms ${String(rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
             ` | edit→peer update p50 ${f(r.updateP50)} ms p99 ${f(r.updateP99)} ms` +
             ` | edit→peer surface p50 ${f(r.surfaceP50)} ms p99 ${f(r.surfaceP99)} ms | surfaces ${String(r.surfaces).padStart(4)}` +
             ` | server loop delay p99 ${f(r.serverLoopDelayP99)} ms`,
@@ -115,7 +118,13 @@ async function main(): Promise<void> {
     await close()
   }
   mkdirSync(resolve(root, 'bench-results'), { recursive: true })
-  const out = { when: new Date().toISOString(), secondsPerScenario: SECONDS, editsPerSecondPerEditor: EDITS_PER_SECOND, node: process.version, results }
+  const out = {
+    when: new Date().toISOString(),
+    secondsPerScenario: SECONDS,
+    editsPerSecondPerEditor: EDITS_PER_SECOND,
+    node: process.version,
+    results,
+  }
   writeFileSync(resolve(root, 'bench-results/live.json'), JSON.stringify(out, null, 2))
   console.log('wrote bench-results/live.json')
   process.exit(0)

@@ -66,138 +66,154 @@ await main()
 
 /** The server side: ladders of steps, each step's clients in child processes. */
 async function main(): Promise<void> {
-const { running, people, room, close } = await startBenchServer(100, 'Load')
+  const { running, people, room, close } = await startBenchServer(100, 'Load')
 
-function children(job: Job): Promise<ClientSummary> {
-  return new Promise((done, reject) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', resolve(root, 'scripts/bench-load.ts'), '--clients'], {
-      env: { ...process.env, BENCH_JOB: JSON.stringify(job) },
-      stdio: ['ignore', 'pipe', 'inherit'],
+  function children(job: Job): Promise<ClientSummary> {
+    return new Promise((done, reject) => {
+      const child = spawn(process.execPath, ['--import', 'tsx', resolve(root, 'scripts/bench-load.ts'), '--clients'], {
+        env: { ...process.env, BENCH_JOB: JSON.stringify(job) },
+        stdio: ['ignore', 'pipe', 'inherit'],
+      })
+      let text = ''
+      child.stdout.on('data', (d: Buffer) => (text += d.toString()))
+      let timedOut = false
+      const deadline = setTimeout(() => {
+        timedOut = true
+        child.kill('SIGKILL')
+      }, STEP_TIMEOUT_S * 1000)
+      // 'close', not 'exit': only then has stdout been read to its end.
+      child.on('close', (code) => {
+        clearTimeout(deadline)
+        const last = text.trim().split('\n').at(-1) ?? ''
+        try {
+          if (timedOut) throw new Error(`no report within ${STEP_TIMEOUT_S} s (BENCH_STEP_TIMEOUT), killed`)
+          if (code !== 0 || !last.startsWith('{')) throw new Error('no summary line')
+          done(JSON.parse(last) as ClientSummary)
+        } catch (e) {
+          reject(new Error(`bench clients exited with ${code} (${(e as Error).message}): ${text.slice(-400)}`))
+        }
+      })
     })
-    let text = ''
-    child.stdout.on('data', (d: Buffer) => (text += d.toString()))
-    let timedOut = false
-    const deadline = setTimeout(() => {
-      timedOut = true
-      child.kill('SIGKILL')
-    }, STEP_TIMEOUT_S * 1000)
-    // 'close', not 'exit': only then has stdout been read to its end.
-    child.on('close', (code) => {
-      clearTimeout(deadline)
-      const last = text.trim().split('\n').at(-1) ?? ''
-      try {
-        if (timedOut) throw new Error(`no report within ${STEP_TIMEOUT_S} s (BENCH_STEP_TIMEOUT), killed`)
-        if (code !== 0 || !last.startsWith('{')) throw new Error('no summary line')
-        done(JSON.parse(last) as ClientSummary)
-      } catch (e) {
-        reject(new Error(`bench clients exited with ${code} (${(e as Error).message}): ${text.slice(-400)}`))
-      }
-    })
-  })
-}
-
-/** The p-th percentile of several children's run-length coded latencies. */
-const percentile = (runs: [number, number][], p: number) => {
-  const total = runs.reduce((s, [, n]) => s + n, 0)
-  if (!total) return Number.NaN
-  const sorted = [...runs].sort((a, b) => a[0] - b[0])
-  let rank = Math.min(total - 1, Math.floor((p / 100) * total))
-  for (const [ms, n] of sorted) if ((rank -= n) < 0) return ms
-  return sorted.at(-1)![0]
-}
-
-async function runStep({ editorsPerRoom, rooms }: Step) {
-  const members = people.slice(0, editorsPerRoom)
-  const jobRooms: Job['rooms'] = []
-  for (let r = 0; r < rooms; r++) {
-    const roomId = await room(members)
-    await running.realtime.ensureRoomFrame(roomId, 'blank')
-    jobRooms.push({ roomId, cookies: members.map((m) => m.cookie) })
   }
-  const jobs: Job[] = jobRooms.map((room) => ({ url: running.url, rooms: [room] }))
-  global.gc?.()
-  const before = process.memoryUsage()
-  const loopDelay = monitorEventLoopDelay({ resolution: 10 })
-  loopDelay.enable()
-  // Memory is sampled while the clients are connected: rooms are freed once the last one leaves.
-  let peak = before
-  const sampler = setInterval(() => {
-    const m = process.memoryUsage()
-    if (m.rss > peak.rss) peak = m
-  }, 200)
-  const settled = await Promise.allSettled(jobs.map(children))
-  clearInterval(sampler)
-  loopDelay.disable()
-  const failed = settled.flatMap((s) => (s.status === 'rejected' ? [String((s.reason as Error).message ?? s.reason)] : []))
-  const outs = settled.flatMap((s) => (s.status === 'fulfilled' ? [s.value] : []))
-  const update = outs.flatMap((o) => o.update)
-  return {
-    editorsPerRoom,
-    rooms,
-    edits: outs.reduce((s, o) => s + o.edits, 0),
-    updateP50: percentile(update, 50),
-    updateP99: percentile(update, 99),
-    rssPerRoomMb: (peak.rss - before.rss) / 2 ** 20 / rooms,
-    heapPerRoomMb: (peak.heapUsed - before.heapUsed) / 2 ** 20 / rooms,
-    serverLoopDelayP99Ms: loopDelay.percentile(99) / 1e6,
-    serverLoopDelayMaxMs: loopDelay.max / 1e6,
-    clientLoopDelayP99Ms: outs.length ? Math.max(...outs.map((o) => o.clientLoopDelayP99Ms)) : Number.NaN,
-    failed,
-  }
-}
 
-// A discarded first step: the solve workers boot (TypeScript loader, warm-up solve) at start.
-await runStep({ editorsPerRoom: 4, rooms: 1 })
-const ladders: { name: string; steps: Step[] }[] = [
-  { name: 'editors per room (1 room)', steps: [10, 30, 60, 100].map((e) => ({ editorsPerRoom: e, rooms: 1 })) },
-  { name: 'rooms per process (10 editors each)', steps: [1, 5, 20].map((r) => ({ editorsPerRoom: 10, rooms: r })) },
-]
-const report: Record<string, unknown> = { when: new Date().toISOString(), node: process.version, seconds: SECONDS, editsPerSecondPerEditor: RATE, targetP99Ms: TARGET_MS }
-const f = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—').padStart(7)
-const calibrationBefore = calibrationMs()
-try {
-  for (const ladder of ladders) {
-    const results = []
-    let held: Step | null = null
-    let missed = false
-    console.log(`\n${ladder.name}`)
-    // Every step runs, also past the target, so the table shows how latency grows; "held" is the
-    // last step before the first miss. A step whose clients fail reports why and counts as a miss.
-    for (const step of ladder.steps) {
-      const r = await runStep(step).catch((e: Error) => ({ ...step, error: e.message }))
-      results.push(r)
-      if ('error' in r) {
-        console.log(`editors/room ${String(step.editorsPerRoom).padStart(3)} rooms ${String(step.rooms).padStart(2)} | failed: ${r.error}`)
-        missed = true
-        continue
-      }
-      const pass = r.updateP99 <= TARGET_MS && !r.failed.length
-      console.log(
-        `editors/room ${String(r.editorsPerRoom).padStart(3)} rooms ${String(r.rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
-          ` | edit→peer p50 ${f(r.updateP50)} ms p99 ${f(r.updateP99)} ms ${pass ? 'ok' : `> ${TARGET_MS} ms`}` +
-          ` | per room rss ${f(r.rssPerRoomMb)} MB heap ${f(r.heapPerRoomMb)} MB | server loop delay p99 ${f(r.serverLoopDelayP99Ms)} ms max ${f(r.serverLoopDelayMaxMs)} ms | client loop p99 ${f(r.clientLoopDelayP99Ms)} ms`,
-      )
-      for (const why of r.failed) console.log(`  a client process failed: ${why}`)
-      if (!pass) missed = true
-      else if (!missed) held = step
+  /** The p-th percentile of several children's run-length coded latencies. */
+  const percentile = (runs: [number, number][], p: number) => {
+    const total = runs.reduce((s, [, n]) => s + n, 0)
+    if (!total) return Number.NaN
+    const sorted = [...runs].sort((a, b) => a[0] - b[0])
+    let rank = Math.min(total - 1, Math.floor((p / 100) * total))
+    for (const [ms, n] of sorted) if ((rank -= n) < 0) return ms
+    return sorted.at(-1)![0]
+  }
+
+  async function runStep({ editorsPerRoom, rooms }: Step) {
+    const members = people.slice(0, editorsPerRoom)
+    const jobRooms: Job['rooms'] = []
+    for (let r = 0; r < rooms; r++) {
+      const roomId = await room(members)
+      await running.realtime.ensureRoomFrame(roomId, 'blank')
+      jobRooms.push({ roomId, cookies: members.map((m) => m.cookie) })
     }
-    console.log(held ? `held: ${held.editorsPerRoom} editors per room in ${held.rooms} room(s)` : 'held: none of the steps')
-    report[ladder.name] = { held, results }
+    const jobs: Job[] = jobRooms.map((room) => ({ url: running.url, rooms: [room] }))
+    global.gc?.()
+    const before = process.memoryUsage()
+    const loopDelay = monitorEventLoopDelay({ resolution: 10 })
+    loopDelay.enable()
+    // Memory is sampled while the clients are connected: rooms are freed once the last one leaves.
+    let peak = before
+    const sampler = setInterval(() => {
+      const m = process.memoryUsage()
+      if (m.rss > peak.rss) peak = m
+    }, 200)
+    const settled = await Promise.allSettled(jobs.map(children))
+    clearInterval(sampler)
+    loopDelay.disable()
+    const failed = settled.flatMap((s) =>
+      s.status === 'rejected' ? [String((s.reason as Error).message ?? s.reason)] : [],
+    )
+    const outs = settled.flatMap((s) => (s.status === 'fulfilled' ? [s.value] : []))
+    const update = outs.flatMap((o) => o.update)
+    return {
+      editorsPerRoom,
+      rooms,
+      edits: outs.reduce((s, o) => s + o.edits, 0),
+      updateP50: percentile(update, 50),
+      updateP99: percentile(update, 99),
+      rssPerRoomMb: (peak.rss - before.rss) / 2 ** 20 / rooms,
+      heapPerRoomMb: (peak.heapUsed - before.heapUsed) / 2 ** 20 / rooms,
+      serverLoopDelayP99Ms: loopDelay.percentile(99) / 1e6,
+      serverLoopDelayMaxMs: loopDelay.max / 1e6,
+      clientLoopDelayP99Ms: outs.length ? Math.max(...outs.map((o) => o.clientLoopDelayP99Ms)) : Number.NaN,
+      failed,
+    }
   }
-} finally {
-  await close()
-}
-const calibrationAfter = calibrationMs()
-const load = loadavg()
-Object.assign(report, { loadAverage: load, calibrationMs: [calibrationBefore, calibrationAfter], cpus: cpus().length })
-console.log(
-  `\ncalibration loop ${calibrationBefore.toFixed(0)} ms before, ${calibrationAfter.toFixed(0)} ms after (≈100 ms on an idle core);` +
-    ` load average ${load.map((l) => l.toFixed(1)).join(' ')} (1, 5, 15 min) on ${cpus().length} cores`,
-)
-mkdirSync(resolve(root, 'bench-results'), { recursive: true })
-writeFileSync(resolve(root, 'bench-results/load.json'), JSON.stringify(report, null, 2))
-console.log('wrote bench-results/load.json')
-process.exit(0)
+
+  // A discarded first step: the solve workers boot (TypeScript loader, warm-up solve) at start.
+  await runStep({ editorsPerRoom: 4, rooms: 1 })
+  const ladders: { name: string; steps: Step[] }[] = [
+    { name: 'editors per room (1 room)', steps: [10, 30, 60, 100].map((e) => ({ editorsPerRoom: e, rooms: 1 })) },
+    { name: 'rooms per process (10 editors each)', steps: [1, 5, 20].map((r) => ({ editorsPerRoom: 10, rooms: r })) },
+  ]
+  const report: Record<string, unknown> = {
+    when: new Date().toISOString(),
+    node: process.version,
+    seconds: SECONDS,
+    editsPerSecondPerEditor: RATE,
+    targetP99Ms: TARGET_MS,
+  }
+  const f = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '—').padStart(7)
+  const calibrationBefore = calibrationMs()
+  try {
+    for (const ladder of ladders) {
+      const results = []
+      let held: Step | null = null
+      let missed = false
+      console.log(`\n${ladder.name}`)
+      // Every step runs, also past the target, so the table shows how latency grows; "held" is the
+      // last step before the first miss. A step whose clients fail reports why and counts as a miss.
+      for (const step of ladder.steps) {
+        const r = await runStep(step).catch((e: Error) => ({ ...step, error: e.message }))
+        results.push(r)
+        if ('error' in r) {
+          console.log(
+            `editors/room ${String(step.editorsPerRoom).padStart(3)} rooms ${String(step.rooms).padStart(2)} | failed: ${r.error}`,
+          )
+          missed = true
+          continue
+        }
+        const pass = r.updateP99 <= TARGET_MS && !r.failed.length
+        console.log(
+          `editors/room ${String(r.editorsPerRoom).padStart(3)} rooms ${String(r.rooms).padStart(2)} | edits ${String(r.edits).padStart(5)}` +
+            ` | edit→peer p50 ${f(r.updateP50)} ms p99 ${f(r.updateP99)} ms ${pass ? 'ok' : `> ${TARGET_MS} ms`}` +
+            ` | per room rss ${f(r.rssPerRoomMb)} MB heap ${f(r.heapPerRoomMb)} MB | server loop delay p99 ${f(r.serverLoopDelayP99Ms)} ms max ${f(r.serverLoopDelayMaxMs)} ms | client loop p99 ${f(r.clientLoopDelayP99Ms)} ms`,
+        )
+        for (const why of r.failed) console.log(`  a client process failed: ${why}`)
+        if (!pass) missed = true
+        else if (!missed) held = step
+      }
+      console.log(
+        held ? `held: ${held.editorsPerRoom} editors per room in ${held.rooms} room(s)` : 'held: none of the steps',
+      )
+      report[ladder.name] = { held, results }
+    }
+  } finally {
+    await close()
+  }
+  const calibrationAfter = calibrationMs()
+  const load = loadavg()
+  Object.assign(report, {
+    loadAverage: load,
+    calibrationMs: [calibrationBefore, calibrationAfter],
+    cpus: cpus().length,
+  })
+  console.log(
+    `\ncalibration loop ${calibrationBefore.toFixed(0)} ms before, ${calibrationAfter.toFixed(0)} ms after (≈100 ms on an idle core);` +
+      ` load average ${load.map((l) => l.toFixed(1)).join(' ')} (1, 5, 15 min) on ${cpus().length} cores`,
+  )
+  mkdirSync(resolve(root, 'bench-results'), { recursive: true })
+  writeFileSync(resolve(root, 'bench-results/load.json'), JSON.stringify(report, null, 2))
+  console.log('wrote bench-results/load.json')
+  process.exit(0)
 }
 
 /**
@@ -270,7 +286,11 @@ function summarise(r: ClientResult): ClientSummary {
     const key = Math.round(ms * 10) / 10
     counts.set(key, (counts.get(key) ?? 0) + 1)
   }
-  return { edits: r.edits, update: [...counts].sort((a, b) => a[0] - b[0]), clientLoopDelayP99Ms: r.clientLoopDelayP99Ms }
+  return {
+    edits: r.edits,
+    update: [...counts].sort((a, b) => a[0] - b[0]),
+    clientLoopDelayP99Ms: r.clientLoopDelayP99Ms,
+  }
 }
 
 /** A fixed loop of 1e8 multiply-adds, as in bench-solver: its time says how busy the machine is (≈100 ms idle). */

@@ -23,7 +23,12 @@ export async function startBenchServer(count: number, prefix: string): Promise<B
   const db = await startDb()
   const database = `veilroom_bench_${Date.now()}`
   await createDatabase({ ...dbDefaults, port: db.port, database })
-  Object.assign(process.env, { DB_PORT: String(db.port), DB_NAME: database, NODE_ENV: 'development', LOG_LEVEL: 'error' })
+  Object.assign(process.env, {
+    DB_PORT: String(db.port),
+    DB_NAME: database,
+    NODE_ENV: 'development',
+    LOG_LEVEL: 'error',
+  })
   // Imported after the environment is set: the server reads it once.
   const { loadConfig } = await import('../server/config.js')
   const { start } = await import('../server/main.js')
@@ -38,7 +43,10 @@ export async function startBenchServer(count: number, prefix: string): Promise<B
     running,
     people,
     room: (members) =>
-      makeRoom(running.dataSource, members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' }))),
+      makeRoom(
+        running.dataSource,
+        members.map((m, i) => ({ userId: m.id, role: i === 0 ? 'owner' : 'editor' })),
+      ),
     close: async () => {
       await running.stop()
       await dropDatabase({ port: db.port, database })

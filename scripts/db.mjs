@@ -116,21 +116,32 @@ export async function startDb(options = {}) {
     mkdirSync(dataDir, { recursive: true })
     if (!existsSync(resolve(dataDir, 'mysql'))) {
       log(`initialising ${dataDir}`)
-      await run('mariadb-install-db', [
-        '--no-defaults', `--datadir=${dataDir}`, '--user=root', '--auth-root-authentication-method=normal',
-      ], { maxBuffer: 64 << 20 })
+      await run(
+        'mariadb-install-db',
+        ['--no-defaults', `--datadir=${dataDir}`, '--user=root', '--auth-root-authentication-method=normal'],
+        { maxBuffer: 64 << 20 },
+      )
     }
-    const child = spawn(await findBinary('mariadbd'), [
-      '--no-defaults', `--datadir=${dataDir}`, `--socket=${socketPath(port)}`, `--port=${port}`,
-      '--bind-address=127.0.0.1', '--user=root', `--pid-file=${pidPath(dataDir)}`,
-      // The app reads and writes DATETIME as UTC (mysql2 timezone 'Z'); column defaults must agree.
-      '--default-time-zone=+00:00',
-      // Flush the redo log once a second instead of at every commit: a crash of the server or of
-      // mariadbd still loses nothing (the log is in the OS cache); only a power loss may lose the
-      // last second. Every edit is one insert, and the per-commit disk flush dominated its latency.
-      '--innodb-flush-log-at-trx-commit=2',
-      `--log-error=${resolve(dataDir, 'error.log')}`,
-    ], { detached: true, stdio: 'ignore' })
+    const child = spawn(
+      await findBinary('mariadbd'),
+      [
+        '--no-defaults',
+        `--datadir=${dataDir}`,
+        `--socket=${socketPath(port)}`,
+        `--port=${port}`,
+        '--bind-address=127.0.0.1',
+        '--user=root',
+        `--pid-file=${pidPath(dataDir)}`,
+        // The app reads and writes DATETIME as UTC (mysql2 timezone 'Z'); column defaults must agree.
+        '--default-time-zone=+00:00',
+        // Flush the redo log once a second instead of at every commit: a crash of the server or of
+        // mariadbd still loses nothing (the log is in the OS cache); only a power loss may lose the
+        // last second. Every edit is one insert, and the per-commit disk flush dominated its latency.
+        '--innodb-flush-log-at-trx-commit=2',
+        `--log-error=${resolve(dataDir, 'error.log')}`,
+      ],
+      { detached: true, stdio: 'ignore' },
+    )
     child.unref()
     started = true
     await waitFor(() => ping(port), 30_000, `MariaDB did not answer on port ${port}; see ${dataDir}/error.log`)

@@ -43,7 +43,9 @@ export function clientBuildIsStale() {
 }
 
 export const hasClientSources = () =>
-  existsSync(resolve(root, 'index.html')) && newestMtime(resolve(root, 'src')) > 0 && readdirSync(resolve(root, 'src')).length > 0
+  existsSync(resolve(root, 'index.html')) &&
+  newestMtime(resolve(root, 'src')) > 0 &&
+  readdirSync(resolve(root, 'src')).length > 0
 
 /**
  * Starts `tsx server/main.ts` as a child and resolves with { child, url } once it logs its URL.

@@ -29,7 +29,8 @@ function fail(code: number, message: string): never {
   process.exit(code)
 }
 
-const usage = 'usage: npm run solve -- FRAME.json|FRAME.csv --out SURFACE.json [--format json|obj|stl] [--figures FIGURES.csv] [--edge-length H]'
+const usage =
+  'usage: npm run solve -- FRAME.json|FRAME.csv --out SURFACE.json [--format json|obj|stl] [--figures FIGURES.csv] [--edge-length H]'
 
 /** The command line, read with node:util parseArgs; a bad option exits 1 naming it. */
 function readArgs(argv: string[]): Args {
@@ -53,7 +54,8 @@ function readArgs(argv: string[]): Args {
   if (values.help) fail(0, usage)
   if (positionals.length !== 1) fail(1, positionals.length ? `unexpected argument ${positionals[1]}\n${usage}` : usage)
   const format = values.format
-  if (format !== 'json' && format !== 'obj' && format !== 'stl') fail(1, `--format: "${format}" is not one of json, obj, stl`)
+  if (format !== 'json' && format !== 'obj' && format !== 'stl')
+    fail(1, `--format: "${format}" is not one of json, obj, stl`)
   let edgeLength: number | undefined
   if (values['edge-length'] !== undefined) {
     edgeLength = Number(values['edge-length'])
@@ -100,13 +102,15 @@ function main(): void {
     `Height ${f.heightRange[0].toFixed(3)}…${f.heightRange[1].toFixed(3)} m, slope ${f.slopeRange[0].toFixed(1)}…${f.slopeRange[1].toFixed(1)}°, flat (< ${f.flatThreshold}°) ${(100 * f.flatShare).toFixed(1)} %`,
     `Ponding pockets: ${f.pondingPockets.length}${f.pondingPockets.map((p) => ` (${p.x.toFixed(2)}, ${p.y.toFixed(2)}) ${p.area.toFixed(2)} m²`).join(',')}`,
     ...f.cables.map(
-      (c) => `Cable ${cableName(c)}: length ${c.length.toFixed(3)} m, prestress-state force ${c.force.toFixed(1)} kN, sag ${c.sag.toFixed(3)} m`,
+      (c) =>
+        `Cable ${cableName(c)}: length ${c.length.toFixed(3)} m, prestress-state force ${c.force.toFixed(1)} kN, sag ${c.sag.toFixed(3)} m`,
     ),
     `Caution: ${CAUTION}`,
   ]
   process.stdout.write(lines.join('\n') + '\n')
   if (args.out) {
-    const text = args.format === 'obj' ? toObj(result) : args.format === 'stl' ? toStl(result) : surfaceResultToJson(result)
+    const text =
+      args.format === 'obj' ? toObj(result) : args.format === 'stl' ? toStl(result) : surfaceResultToJson(result)
     writeFileSync(args.out, text)
     process.stdout.write(`Wrote ${args.out} (${args.format})\n`)
   }

@@ -27,7 +27,8 @@ if (await run('tsx', ['scripts/migrate.ts', '--seed'], { env })) {
 
 if (hasClientSources() && clientBuildIsStale()) {
   console.log('[start] building the client (vite build)…')
-  if (await run('vite', ['build'])) console.error('[start] client build failed: the API still starts, the web pages will not')
+  if (await run('vite', ['build']))
+    console.error('[start] client build failed: the API still starts, the web pages will not')
 }
 
 // Outside production, invites go to the fake SMTP server unless a real one is configured.

@@ -5,7 +5,15 @@
 import { existsSync, readdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
-import { clientBuildIsStale, hasClientSources, root, run, startServerChild, stopChild, stopRunning } from './helpers.mjs'
+import {
+  clientBuildIsStale,
+  hasClientSources,
+  root,
+  run,
+  startServerChild,
+  stopChild,
+  stopRunning,
+} from './helpers.mjs'
 import { startFakeSmtpChild } from '../server/mail/fake-smtp-child.mjs'
 
 // `npm test -- --browser` runs only the browser tests (with the database and server they need).
@@ -29,11 +37,17 @@ async function stage(name, fn) {
 if (!existsSync(resolve(root, 'node_modules'))) await run('npm', ['ci'])
 
 if (!filters.length && !browserOnly) {
-  if (hasClientSources()) await stage('typecheck client (vue-tsc --build)', () => run('vue-tsc', ['--build', '--force']))
-  await stage('typecheck server (tsc -p tsconfig.server.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.server.json']))
+  if (hasClientSources())
+    await stage('typecheck client (vue-tsc --build)', () => run('vue-tsc', ['--build', '--force']))
+  await stage('typecheck server (tsc -p tsconfig.server.json)', () =>
+    run('tsc', ['--noEmit', '-p', 'tsconfig.server.json']),
+  )
   // tests also reach into the DOM (client units, page.evaluate in browser tests); the server may not
-  await stage('typecheck tests (tsc -p tsconfig.tests.json)', () => run('tsc', ['--noEmit', '-p', 'tsconfig.tests.json']))
+  await stage('typecheck tests (tsc -p tsconfig.tests.json)', () =>
+    run('tsc', ['--noEmit', '-p', 'tsconfig.tests.json']),
+  )
   await stage('lint (eslint)', () => run('eslint', ['.']))
+  await stage('format (prettier --check)', () => run('prettier', ['--check', '.']))
 }
 
 // A separate instance and a fresh database per run, so tests never see development data.
@@ -75,9 +89,12 @@ for (const signal of ['SIGINT', 'SIGTERM']) {
   process.once(signal, () => cleanUp().finally(() => process.exit(130)))
 }
 try {
-  const migrated = await stage('migrate + demo seed (test database)', () => run('tsx', ['scripts/migrate.ts', '--seed'], { env }))
+  const migrated = await stage('migrate + demo seed (test database)', () =>
+    run('tsx', ['scripts/migrate.ts', '--seed'], { env }),
+  )
   if (migrated === 0) {
-    if (!browserOnly) await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
+    if (!browserOnly)
+      await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
     const browserDir = resolve(root, 'tests/browser')
     const e2e = existsSync(browserDir) ? readdirSync(browserDir).filter((f) => f.endsWith('.e2e.ts')) : []
     if (!filters.length && e2e.length) {
@@ -93,7 +110,9 @@ try {
         // Invite mail goes to a fake SMTP server on a free port, read back through /api/dev/mailbox.
         smtp = await startFakeSmtpChild({ ...env, SMTP_PORT: '0' })
         server = await startServerChild({ ...env, PORT: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtp.port) })
-        return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts'], { env: { ...env, BASE_URL: server.url } })
+        return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts'], {
+          env: { ...env, BASE_URL: server.url },
+        })
       })
     }
   }

@@ -48,7 +48,13 @@ export function createWebSession(config: Config, dataSource: DataSource): WebSes
   const session = createSession(config, dataSource)
   const auth = authService(dataSource, config.BCRYPT_COST)
   const passport = createPassport(auth)
-  return { sessionMiddleware: session.middleware, passportSession: passport.session() as RequestHandler, passport, auth, close: session.close }
+  return {
+    sessionMiddleware: session.middleware,
+    passportSession: passport.session() as RequestHandler,
+    passport,
+    auth,
+    close: session.close,
+  }
 }
 
 export interface AppBundle {
@@ -132,7 +138,10 @@ export function createApp({
       limits: { signUpsPerHour: config.RATE_SIGNUPS_PER_HOUR, signInFailuresPerIp: config.RATE_SIGNIN_FAILURES_PER_IP },
     }),
   )
-  api.use('/rooms', roomsRoutes(dataSource, roomsService(dataSource), live, { roomsPerHour: config.RATE_ROOMS_PER_HOUR }))
+  api.use(
+    '/rooms',
+    roomsRoutes(dataSource, roomsService(dataSource), live, { roomsPerHour: config.RATE_ROOMS_PER_HOUR }),
+  )
   api.use(teamworkRoutes({ config, dataSource, live }))
   app.use('/api', api)
   // Routers added to `api` later still run before these: they live inside the mounted router.

@@ -12,7 +12,10 @@ const schema = z
     PORT: z.coerce.number().int().min(0).max(65535).default(3210),
     DB_HOST: z.string().min(1).default('127.0.0.1'),
     DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
-    DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('veilroom'),
+    DB_NAME: z
+      .string()
+      .regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only')
+      .default('veilroom'),
     DB_USER: z.string().min(1).default('veilroom'),
     DB_PASSWORD: z.string().default('veilroom-dev-password'),
     SESSION_SECRET: z.string().min(16, 'at least 16 characters').optional(),
@@ -28,7 +31,10 @@ const schema = z
       .refine((u) => /^rediss?:\/\//.test(u), 'must start with redis:// or rediss://')
       .optional(),
     // a stable name for this instance in /api/health and logs; defaults to host:port
-    INSTANCE_ID: z.string().regex(/^[A-Za-z0-9_.:-]{1,64}$/, 'letters, digits, _ . : - only (1–64)').optional(),
+    INSTANCE_ID: z
+      .string()
+      .regex(/^[A-Za-z0-9_.:-]{1,64}$/, 'letters, digits, _ . : - only (1–64)')
+      .optional(),
     // Abuse limits (issue 12): generous for a team, small for a script. Sign-ups per client address
     // per hour; rooms and invites per signed-in user per hour; failed sign-ins per address per 15
     // minutes summed over every e-mail tried (password spraying), besides 10 per address + e-mail.

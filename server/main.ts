@@ -98,7 +98,10 @@ export async function start(options: StartOptions = {}): Promise<Running> {
     },
   }
   current = running
-  logger.info(`Veilroom server listening on ${url}`, scale ? { instance: config.INSTANCE_ID, redis: 'shared rooms' } : undefined)
+  logger.info(
+    `Veilroom server listening on ${url}`,
+    scale ? { instance: config.INSTANCE_ID, redis: 'shared rooms' } : undefined,
+  )
   return running
 }
 
@@ -117,7 +120,10 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   }
   const shutdown = (signal: string) => {
     logger.info(`${signal}: stopping`)
-    stop().then(() => process.exit(0), () => process.exit(1))
+    stop().then(
+      () => process.exit(0),
+      () => process.exit(1),
+    )
   }
   process.once('SIGINT', () => shutdown('SIGINT'))
   process.once('SIGTERM', () => shutdown('SIGTERM'))

@@ -82,7 +82,14 @@ export function createSurfaceSolver(): SurfaceSolver {
       next,
       mesh,
       warm: previous?.solved !== undefined,
-      ...solveOnMesh(frame, mesh, next, previous && { solved: previous.solved, mesh: previous.mesh }, options, !remeshable),
+      ...solveOnMesh(
+        frame,
+        mesh,
+        next,
+        previous && { solved: previous.solved, mesh: previous.mesh },
+        options,
+        !remeshable,
+      ),
     }
   }
   return {
@@ -159,7 +166,8 @@ function solveOnMesh(
       // lifts its neighbours instead of leaving slivers next to it)
       if (constraints.isFixed[v]) continue
       if (spatialPath)
-        for (let d = 0; d < 3; d++) start[3 * v + d] = solved[3 * v + d]! + mesh.vertices[3 * v + d]! - before[3 * v + d]!
+        for (let d = 0; d < 3; d++)
+          start[3 * v + d] = solved[3 * v + d]! + mesh.vertices[3 * v + d]! - before[3 * v + d]!
       else start[3 * v + 2] = solved[3 * v + 2]!
     }
   }

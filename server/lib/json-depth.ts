@@ -14,15 +14,20 @@ export function jsonDepthLimit(max = MAX_JSON_DEPTH): RequestHandler {
   return (req, _res, next) => {
     const body: unknown = req.body
     if (body === null || typeof body !== 'object') return next()
-    const stack: { value: object; depth: number; field: string | undefined }[] = [{ value: body, depth: 1, field: undefined }]
+    const stack: { value: object; depth: number; field: string | undefined }[] = [
+      { value: body, depth: 1, field: undefined },
+    ]
     while (stack.length) {
       const { value, depth, field } = stack.pop()!
       if (depth > max) {
         const where = field === undefined ? 'The JSON body' : `${field}: the value`
-        return next(new AppError('too_deep', 400, `${where} nests more than ${max} levels of arrays or objects.`, field))
+        return next(
+          new AppError('too_deep', 400, `${where} nests more than ${max} levels of arrays or objects.`, field),
+        )
       }
       for (const [key, child] of Object.entries(value)) {
-        if (child !== null && typeof child === 'object') stack.push({ value: child as object, depth: depth + 1, field: field ?? key })
+        if (child !== null && typeof child === 'object')
+          stack.push({ value: child as object, depth: depth + 1, field: field ?? key })
       }
     }
     next()

@@ -14,9 +14,16 @@ export function installProcessGuards(): void {
   if (installed) return
   installed = true
   process.on('uncaughtException', (err, origin) => {
-    logger.error('uncaught exception (kept serving)', { origin, err: String(err), stack: err instanceof Error ? err.stack : undefined })
+    logger.error('uncaught exception (kept serving)', {
+      origin,
+      err: String(err),
+      stack: err instanceof Error ? err.stack : undefined,
+    })
   })
   process.on('unhandledRejection', (reason) => {
-    logger.error('unhandled rejection (kept serving)', { err: String(reason), stack: reason instanceof Error ? reason.stack : undefined })
+    logger.error('unhandled rejection (kept serving)', {
+      err: String(reason),
+      stack: reason instanceof Error ? reason.stack : undefined,
+    })
   })
 }

@@ -19,7 +19,8 @@ export interface LimitOptions {
 
 const ipOf = (req: Request) => ipKeyGenerator(req.ip ?? '')
 
-const minutes = (ms: number) => (ms >= HOUR_MS ? `${Math.round(ms / HOUR_MS)} hour${ms === HOUR_MS ? '' : 's'}` : `${Math.round(ms / 60_000)} minutes`)
+const minutes = (ms: number) =>
+  ms >= HOUR_MS ? `${Math.round(ms / HOUR_MS)} hour${ms === HOUR_MS ? '' : 's'}` : `${Math.round(ms / 60_000)} minutes`
 
 /** A limiter answering 429 rate_limited with a message naming what was counted and the window. */
 export function limiter({ what, limit, windowMs, key, failuresOnly = false }: LimitOptions): RequestHandler {
@@ -29,10 +30,14 @@ export function limiter({ what, limit, windowMs, key, failuresOnly = false }: Li
     skipSuccessfulRequests: failuresOnly,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: key === 'ip' ? ipOf : key === 'user' ? (req) => (req.user ? `user:${req.user.id}` : `ip:${ipOf(req)}`) : key,
+    keyGenerator:
+      key === 'ip' ? ipOf : key === 'user' ? (req) => (req.user ? `user:${req.user.id}` : `ip:${ipOf(req)}`) : key,
     handler: (_req, res) => {
       res.status(429).json({
-        error: { code: 'rate_limited', message: `Too many ${what} (at most ${limit} in ${minutes(windowMs)}); try again later.` },
+        error: {
+          code: 'rate_limited',
+          message: `Too many ${what} (at most ${limit} in ${minutes(windowMs)}); try again later.`,
+        },
       })
     },
   })

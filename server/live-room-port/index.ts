@@ -17,7 +17,9 @@ export interface LiveRoomPort {
    * The room's current frame and version. `frame` is null when the document is empty or invalid;
    * `invalid` then names the path (`loops[0].points[2]`) and the reason (shared/room-doc/read.ts).
    */
-  getRoomFrame(roomId: string): Promise<{ frame: Frame | null; version: number; invalid?: { path: string; message: string } }>
+  getRoomFrame(
+    roomId: string,
+  ): Promise<{ frame: Frame | null; version: number; invalid?: { path: string; message: string } }>
   /** The room's last settled fine surface (solved on demand when the room was not loaded). */
   getLatestSurface(roomId: string): Promise<SettledSurface | null>
   emitToRoom: RoomEmit
@@ -36,7 +38,11 @@ export interface LiveRoomPort {
  */
 export function offlineLiveRoom(): LiveRoomPort {
   const unavailable = () =>
-    new AppError('live_unavailable', 503, 'The live room service is not running, so the frame and surface cannot be read.')
+    new AppError(
+      'live_unavailable',
+      503,
+      'The live room service is not running, so the frame and surface cannot be read.',
+    )
   return {
     getRoomFrame: () => Promise.reject(unavailable()),
     getLatestSurface: () => Promise.reject(unavailable()),

@@ -30,7 +30,9 @@ function splitPart(raw: string): Part {
 const utf8 = (latin1: string) => Buffer.from(latin1, 'latin1').toString('utf8')
 
 function decodeQuotedPrintable(s: string): string {
-  return s.replace(/=\r?\n/g, '').replace(/=([0-9A-Fa-f]{2})/g, (_, hex: string) => String.fromCharCode(parseInt(hex, 16)))
+  return s
+    .replace(/=\r?\n/g, '')
+    .replace(/=([0-9A-Fa-f]{2})/g, (_, hex: string) => String.fromCharCode(parseInt(hex, 16)))
 }
 
 function decodeBody(part: Part): string {

@@ -32,7 +32,14 @@ export function dbMailbox(dataSource: DataSource): MailboxStore {
   const repo = dataSource.getRepository(DevMailEntity)
   return {
     async save(m) {
-      await repo.insert({ id: randomUUID(), to: m.to, subject: m.subject, text: m.text, html: m.html ?? null, receivedAt: m.date })
+      await repo.insert({
+        id: randomUUID(),
+        to: m.to,
+        subject: m.subject,
+        text: m.text,
+        html: m.html ?? null,
+        receivedAt: m.date,
+      })
     },
     async list(limit = 100) {
       return (await repo.find({ order: { receivedAt: 'DESC' }, take: limit })).map(view)
@@ -40,7 +47,9 @@ export function dbMailbox(dataSource: DataSource): MailboxStore {
     async listTo(address, limit = 100) {
       const rows = await repo
         .createQueryBuilder('m')
-        .where("CONCAT(', ', LOWER(m.to_addr), ',') LIKE :pattern", { pattern: `%, ${likeLiteral(address.trim().toLowerCase())},%` })
+        .where("CONCAT(', ', LOWER(m.to_addr), ',') LIKE :pattern", {
+          pattern: `%, ${likeLiteral(address.trim().toLowerCase())},%`,
+        })
         .orderBy('m.receivedAt', 'DESC')
         .take(limit)
         .getMany()
@@ -66,7 +75,14 @@ export function memoryMailbox(): MailboxStore {
   const messages: MailboxMessage[] = []
   return {
     async save(m) {
-      messages.unshift({ id: randomUUID(), to: m.to, subject: m.subject, text: m.text, ...(m.html ? { html: m.html } : {}), date: m.date.toISOString() })
+      messages.unshift({
+        id: randomUUID(),
+        to: m.to,
+        subject: m.subject,
+        text: m.text,
+        ...(m.html ? { html: m.html } : {}),
+        date: m.date.toISOString(),
+      })
     },
     async list(limit = 100) {
       return messages.slice(0, limit)

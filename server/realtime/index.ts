@@ -62,7 +62,11 @@ export async function seedRoomFrames(dataSource: DataSource, frames: Record<stri
 
 export function attachRealtime(httpServer: Server, deps: RealtimeDeps): Realtime {
   const { config, tuning = {} } = deps
-  const access = { sessionMiddleware: deps.sessionMiddleware, passportSession: deps.passportSession, dataSource: deps.dataSource }
+  const access = {
+    sessionMiddleware: deps.sessionMiddleware,
+    passportSession: deps.passportSession,
+    dataSource: deps.dataSource,
+  }
   const base = allowedOrigins(config.PUBLIC_URL, config.NODE_ENV)
   // The address we actually listen on (port 0 in tests) is an allowed origin too.
   const origins = () => {

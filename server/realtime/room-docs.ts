@@ -179,7 +179,12 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
       const read = readRoomFrame(room.doc)
       // A broken document is left for its members to repair (undo, import, snapshot restore),
       // never overwritten here: it may be one bad value in a frame someone worked on for hours.
-      if (read.kind === 'invalid') logger.warn('realtime: room document holds an invalid frame', { roomId, path: read.path, message: read.message })
+      if (read.kind === 'invalid')
+        logger.warn('realtime: room document holds an invalid frame', {
+          roomId,
+          path: read.path,
+          message: read.message,
+        })
       if (read.kind !== 'empty') return false
       writeFrame(room.doc, starterFrame(starterKey), SEED)
       await this.flush(room)
@@ -303,7 +308,13 @@ export class RoomDocs extends EventEmitter<{ loaded: [LiveRoom]; freed: [LiveRoo
       if (this.shared) {
         const ids = room.knownIds
         room.knownIds = []
-        await storeCompactedShared(this.ds, room.roomId, (stored) => this.mergeStored(room, stored), room.version, ids).catch((err: unknown) => {
+        await storeCompactedShared(
+          this.ds,
+          room.roomId,
+          (stored) => this.mergeStored(room, stored),
+          room.version,
+          ids,
+        ).catch((err: unknown) => {
           room.knownIds.push(...ids)
           throw err
         })

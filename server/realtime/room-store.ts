@@ -31,8 +31,13 @@ interface UpdateRow {
 
 /** Reads a room's compacted state and the updates stored after it. */
 export async function loadStoredRoom(ds: DataSource, roomId: string): Promise<StoredRoom> {
-  const states = (await ds.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ?', [roomId])) as StateRow[]
-  const rows = (await ds.query('SELECT `id`, `update`, `version` FROM `room_updates` WHERE `room_id` = ? ORDER BY `id`', [roomId])) as UpdateRow[]
+  const states = (await ds.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ?', [
+    roomId,
+  ])) as StateRow[]
+  const rows = (await ds.query(
+    'SELECT `id`, `update`, `version` FROM `room_updates` WHERE `room_id` = ? ORDER BY `id`',
+    [roomId],
+  )) as UpdateRow[]
   const head = states[0]
   const last = rows[rows.length - 1]
   return {
@@ -50,10 +55,21 @@ export async function loadStoredRoom(ds: DataSource, roomId: string): Promise<St
  * relies on every earlier row of this room having a smaller id, which holds in any mode because a
  * room's writes run one after another.
  */
-export async function appendUpdates(ds: DataSource, roomId: string, rows: readonly { update: Uint8Array; version: number }[]): Promise<number> {
+export async function appendUpdates(
+  ds: DataSource,
+  roomId: string,
+  rows: readonly { update: Uint8Array; version: number }[],
+): Promise<number> {
   const values = rows.map(() => '(?, ?, ?)').join(', ')
-  const params = rows.flatMap(({ update, version }) => [roomId, Buffer.from(update.buffer, update.byteOffset, update.byteLength), version])
-  const result = (await ds.query(`INSERT INTO \`room_updates\` (\`room_id\`, \`update\`, \`version\`) VALUES ${values}`, params)) as { insertId: number; affectedRows: number }
+  const params = rows.flatMap(({ update, version }) => [
+    roomId,
+    Buffer.from(update.buffer, update.byteOffset, update.byteLength),
+    version,
+  ])
+  const result = (await ds.query(
+    `INSERT INTO \`room_updates\` (\`room_id\`, \`update\`, \`version\`) VALUES ${values}`,
+    params,
+  )) as { insertId: number; affectedRows: number }
   return Number(result.insertId) + rows.length - 1
 }
 
@@ -61,7 +77,13 @@ export async function appendUpdates(ds: DataSource, roomId: string, rows: readon
  * Stores the full document state with its version and deletes the update rows it already contains
  * (ids ≤ upToId). Rows appended meanwhile stay and are re-applied on load; yjs ignores duplicates.
  */
-export async function storeCompacted(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
+export async function storeCompacted(
+  ds: DataSource,
+  roomId: string,
+  state: Uint8Array,
+  version: number,
+  upToId: number,
+): Promise<void> {
   // InnoDB may still pick this transaction as a deadlock victim when many rooms compact at once
   // (everyone leaving together); the documented remedy is to run it again.
   for (let attempt = 1; ; attempt++) {
@@ -73,7 +95,13 @@ export async function storeCompacted(ds: DataSource, roomId: string, state: Uint
   }
 }
 
-async function compactOnce(ds: DataSource, roomId: string, state: Uint8Array, version: number, upToId: number): Promise<void> {
+async function compactOnce(
+  ds: DataSource,
+  roomId: string,
+  state: Uint8Array,
+  version: number,
+  upToId: number,
+): Promise<void> {
   // READ COMMITTED: the range delete takes no gap locks, which deadlocked against other rooms'
   // inserts into the same index under REPEATABLE READ.
   await ds.transaction('READ COMMITTED', async (em) => {
@@ -102,7 +130,9 @@ export async function storeCompactedShared(
   for (let attempt = 1; ; attempt++) {
     try {
       return await ds.transaction('READ COMMITTED', async (em) => {
-        const rows = (await em.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ? FOR UPDATE', [roomId])) as StateRow[]
+        const rows = (await em.query('SELECT `state`, `version` FROM `room_documents` WHERE `room_id` = ? FOR UPDATE', [
+          roomId,
+        ])) as StateRow[]
         const state = merge(rows[0]?.state ?? null)
         const newest = Math.max(version, rows[0] ? Number(rows[0].version) : 0)
         await em.query(
@@ -112,7 +142,10 @@ export async function storeCompactedShared(
         )
         for (let i = 0; i < ids.length; i += 500) {
           const chunk = ids.slice(i, i + 500)
-          await em.query(`DELETE FROM \`room_updates\` WHERE \`room_id\` = ? AND \`id\` IN (${chunk.map(() => '?').join(', ')})`, [roomId, ...chunk])
+          await em.query(
+            `DELETE FROM \`room_updates\` WHERE \`room_id\` = ? AND \`id\` IN (${chunk.map(() => '?').join(', ')})`,
+            [roomId, ...chunk],
+          )
         }
       })
     } catch (err) {

@@ -53,11 +53,24 @@ export class SolvePool {
   }
 
   /** Queues a solve of `frame` for a room. */
-  solve(roomId: string, frame: Frame, opts: { coarse?: boolean; onProgress?: Job['onProgress']; cuts?: RoomCuts | undefined } = {}): SolveHandle {
+  solve(
+    roomId: string,
+    frame: Frame,
+    opts: { coarse?: boolean; onProgress?: Job['onProgress']; cuts?: RoomCuts | undefined } = {},
+  ): SolveHandle {
     const flag = new Int32Array(new SharedArrayBuffer(4))
     let resolve!: (o: SolveOutcome) => void
     const done = new Promise<SolveOutcome>((r) => (resolve = r))
-    const job: Job = { id: this.nextId++, roomId, frame, coarse: opts.coarse ?? false, cuts: opts.cuts, flag, onProgress: opts.onProgress ?? (() => undefined), resolve }
+    const job: Job = {
+      id: this.nextId++,
+      roomId,
+      frame,
+      coarse: opts.coarse ?? false,
+      cuts: opts.cuts,
+      flag,
+      onProgress: opts.onProgress ?? (() => undefined),
+      resolve,
+    }
     if (this.closed) resolve({ kind: 'cancelled' })
     else {
       this.queue.push(job)
@@ -105,7 +118,7 @@ export class SolvePool {
   }
 
   private dispatch(): void {
-    for (let i = 0; i < this.queue.length; ) {
+    for (let i = 0; i < this.queue.length;) {
       const job = this.queue[i]!
       const target = this.pick(job.roomId)
       if (target === undefined) {
@@ -137,12 +150,21 @@ export class SolvePool {
   private run(index: number, job: Job): void {
     const slot = this.slots[index] ?? this.spawn(index)
     const previous = this.home.get(job.roomId)
-    if (previous !== undefined && previous !== index) this.slots[previous]?.worker.postMessage({ type: 'forget', roomId: job.roomId } satisfies ToWorker)
+    if (previous !== undefined && previous !== index)
+      this.slots[previous]?.worker.postMessage({ type: 'forget', roomId: job.roomId } satisfies ToWorker)
     this.home.set(job.roomId, index)
     slot.job = job
     // Only an idle pool may let the process exit.
     slot.worker.ref()
-    const message: ToWorker = { type: 'solve', jobId: job.id, roomId: job.roomId, frame: job.frame, coarse: job.coarse, cuts: job.cuts, cancel: job.flag.buffer as SharedArrayBuffer }
+    const message: ToWorker = {
+      type: 'solve',
+      jobId: job.id,
+      roomId: job.roomId,
+      frame: job.frame,
+      coarse: job.coarse,
+      cuts: job.cuts,
+      cancel: job.flag.buffer as SharedArrayBuffer,
+    }
     slot.worker.postMessage(message)
   }
 
@@ -152,7 +174,8 @@ export class SolvePool {
     const slot: Slot = { worker, job: null }
     this.slots[index] = slot
     worker.on('message', (m: FromWorker) => this.onMessage(slot, m))
-    const stopped = (): SolveOutcome => (this.closed ? { kind: 'cancelled' } : { kind: 'failed', message: 'the solver stopped unexpectedly' })
+    const stopped = (): SolveOutcome =>
+      this.closed ? { kind: 'cancelled' } : { kind: 'failed', message: 'the solver stopped unexpectedly' }
     worker.on('error', (err) => {
       logger.error('realtime: solve worker crashed', { err: String(err) })
       this.finish(slot, stopped())
@@ -176,7 +199,10 @@ export class SolvePool {
       const { type: _t, jobId: _j, ...payload } = m
       const cancelled = Atomics.load(job.flag, 0) !== 0
       const worker = this.slots.indexOf(slot)
-      this.finish(slot, cancelled ? { kind: 'cancelled', solver: payload.solver } : { kind: 'result', worker, ...payload })
+      this.finish(
+        slot,
+        cancelled ? { kind: 'cancelled', solver: payload.solver } : { kind: 'result', worker, ...payload },
+      )
     }
   }
 

@@ -48,9 +48,15 @@ async function solve(job: SolveJobMessage): Promise<void> {
     const vertices = Float32Array.from(mesh.vertices)
     const triangles = Uint32Array.from(mesh.triangles)
     // the same job lays the strips flat, so the next edit's cancel flag stops both
-    const pattern = job.cuts && !job.coarse && report.converged ? patternOrCancelled(mesh.vertices, mesh.triangles, job.cuts, signal) : undefined
+    const pattern =
+      job.cuts && !job.coarse && report.converged
+        ? patternOrCancelled(mesh.vertices, mesh.triangles, job.cuts, signal)
+        : undefined
     const transfer = [vertices.buffer, triangles.buffer, ...(pattern ? patternBuffers(pattern) : [])]
-    port!.postMessage({ type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report, pattern } satisfies FromWorker, transfer)
+    port!.postMessage(
+      { type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report, pattern } satisfies FromWorker,
+      transfer,
+    )
   } catch (err) {
     post({ type: 'failed', jobId: job.jobId, message: err instanceof Error ? err.message : String(err) })
   }

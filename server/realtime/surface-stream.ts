@@ -101,7 +101,10 @@ export function attachSurfaceStream(io: StreamServer, opts: SurfaceStreamOptions
         const user = socket.data.user
         const role = roomId ? await roomRoleOf(opts.access.dataSource, roomId, user.id) : null
         if (!roomId || !role || !can(role, 'read')) {
-          return reply({ ok: false, error: { code: 'room_not_found', message: 'No such room, or you are not a member.' } })
+          return reply({
+            ok: false,
+            error: { code: 'room_not_found', message: 'No such room, or you are not a member.' },
+          })
         }
         if (!held.has(roomId)) {
           const room = await opts.rooms.acquire(roomId)

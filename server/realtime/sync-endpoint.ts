@@ -59,7 +59,9 @@ function revoke(ws: WebSocket, code: number, reason: string): void {
 }
 
 function refuse(socket: Duplex, status: number, reason: string): void {
-  socket.end(`HTTP/1.1 ${status} ${reason}\r\nConnection: close\r\nContent-Type: text/plain\r\nContent-Length: ${reason.length}\r\n\r\n${reason}`)
+  socket.end(
+    `HTTP/1.1 ${status} ${reason}\r\nConnection: close\r\nContent-Type: text/plain\r\nContent-Length: ${reason.length}\r\n\r\n${reason}`,
+  )
   socket.destroy()
 }
 
@@ -135,7 +137,8 @@ export function attachSyncEndpoint(server: Server, opts: SyncEndpointOptions): S
     connections: () => live.size,
     closeWhere: (roomId, userId, code = 4403, reason = 'access changed') => {
       for (const [ws, who] of live) {
-        if ((roomId === undefined || who.roomId === roomId) && (userId === undefined || who.userId === userId)) revoke(ws, code, reason)
+        if ((roomId === undefined || who.roomId === roomId) && (userId === undefined || who.userId === userId))
+          revoke(ws, code, reason)
       }
     },
     close: async () => {
@@ -215,7 +218,11 @@ function awarenessEntries(update: Uint8Array): { id: number; clock: number; stat
   const count = decoding.readVarUint(decoder)
   const entries: { id: number; clock: number; state: string }[] = []
   for (let i = 0; i < count; i++) {
-    entries.push({ id: decoding.readVarUint(decoder), clock: decoding.readVarUint(decoder), state: decoding.readVarString(decoder) })
+    entries.push({
+      id: decoding.readVarUint(decoder),
+      clock: decoding.readVarUint(decoder),
+      state: decoding.readVarString(decoder),
+    })
   }
   return entries
 }
@@ -259,7 +266,9 @@ export function isV1Update(update: Uint8Array): boolean {
 
 function toBytes(data: Buffer | ArrayBuffer | Buffer[]): Uint8Array {
   if (Array.isArray(data)) return new Uint8Array(Buffer.concat(data))
-  return data instanceof ArrayBuffer ? new Uint8Array(data) : new Uint8Array(data.buffer, data.byteOffset, data.byteLength)
+  return data instanceof ArrayBuffer
+    ? new Uint8Array(data)
+    : new Uint8Array(data.buffer, data.byteOffset, data.byteLength)
 }
 
 function awarenessMessage(room: LiveRoom, clients: number[]): Uint8Array {

@@ -99,7 +99,11 @@ export function attachDocBus(opts: {
     const channel = channelBytes.toString()
     try {
       if (channel === CONTROL) {
-        const { roomId, userId, deleted } = JSON.parse(message.toString()) as { roomId?: string; userId?: string; deleted?: boolean }
+        const { roomId, userId, deleted } = JSON.parse(message.toString()) as {
+          roomId?: string
+          userId?: string
+          deleted?: boolean
+        }
         return opts.closeLocal(roomId, userId, deleted === true)
       }
       const room = rooms.peek(channel.slice('vr:doc:'.length))
@@ -140,7 +144,9 @@ export function attachDocBus(opts: {
 
   return {
     closeWhere: (roomId, userId, deleted) => {
-      pub.publish(CONTROL, JSON.stringify({ roomId, userId, deleted })).catch(() => opts.closeLocal(roomId, userId, deleted))
+      pub
+        .publish(CONTROL, JSON.stringify({ roomId, userId, deleted }))
+        .catch(() => opts.closeLocal(roomId, userId, deleted))
     },
     close: () => {
       rooms.off('loaded', onLoaded)

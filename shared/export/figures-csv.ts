@@ -24,7 +24,11 @@ export function tableToCsv(t: Readonly<ReportTable>): string[] {
   if (t.note) lines.push(`# ${t.note}`)
   lines.push(t.columns.map((c) => csvText(columnHeader(c))).join(','))
   for (const row of t.rows) {
-    lines.push(row.map((v, i) => (v === null ? '' : typeof v === 'string' ? csvText(v) : cell(formatCell(v, t.columns[i]!)))).join(','))
+    lines.push(
+      row
+        .map((v, i) => (v === null ? '' : typeof v === 'string' ? csvText(v) : cell(formatCell(v, t.columns[i]!))))
+        .join(','),
+    )
   }
   return lines
 }

@@ -26,8 +26,11 @@ export function toStl(result: Readonly<Pick<SurfaceResult, 'vertices' | 'triangl
   const lines = [`solid ${name}`]
   const V = result.vertices
   for (const [a, b, c] of result.triangles) {
-    const p = V[a]!, q = V[b]!, r = V[c]!
-    const u = [q[0] - p[0], q[1] - p[1], q[2] - p[2]], w = [r[0] - p[0], r[1] - p[1], r[2] - p[2]]
+    const p = V[a]!,
+      q = V[b]!,
+      r = V[c]!
+    const u = [q[0] - p[0], q[1] - p[1], q[2] - p[2]],
+      w = [r[0] - p[0], r[1] - p[1], r[2] - p[2]]
     const n = [u[1]! * w[2]! - u[2]! * w[1]!, u[2]! * w[0]! - u[0]! * w[2]!, u[0]! * w[1]! - u[1]! * w[0]!]
     const len = Math.hypot(n[0]!, n[1]!, n[2]!) || 1
     lines.push(`  facet normal ${n.map((x) => fmt(x / len)).join(' ')}`, '    outer loop')

@@ -4,7 +4,8 @@ import type { Figures, MembraneMesh, SolverReport, SurfaceResult } from '../type
 
 /** Typed-array mesh + figures + solver report → the plain SurfaceResult shape. */
 export function toSurfaceResult(mesh: Readonly<MembraneMesh>, figures: Figures, solver: SolverReport): SurfaceResult {
-  const V = mesh.vertices, T = mesh.triangles
+  const V = mesh.vertices,
+    T = mesh.triangles
   const vertices: [number, number, number][] = []
   for (let v = 0; v < V.length; v += 3) vertices.push([V[v]!, V[v + 1]!, V[v + 2]!])
   const triangles: [number, number, number][] = []
@@ -18,7 +19,8 @@ export function toSurfaceResult(mesh: Readonly<MembraneMesh>, figures: Figures, 
  */
 export function surfaceResultToJson(result: Readonly<SurfaceResult>): string {
   return JSON.stringify({ ...result, caution: CAUTION }, (key, value: unknown) => {
-    if (typeof value === 'number' && !Number.isFinite(value)) throw new Error(`surface result: ${key || 'value'} is not finite (${value})`)
+    if (typeof value === 'number' && !Number.isFinite(value))
+      throw new Error(`surface result: ${key || 'value'} is not finite (${value})`)
     return value
   })
 }

@@ -41,10 +41,12 @@ export function cableFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame
     loop.edges.forEach((edge, e) => {
       if (edge.kind !== 'cable') return
       const vs = edgeVertices(mesh, l, e)
-      const a = vs[0]!, b = vs[vs.length - 1]!
+      const a = vs[0]!,
+        b = vs[vs.length - 1]!
       const chord = sub(V, b, a)
       const c = norm(chord)
-      let length = 0, sag = 0
+      let length = 0,
+        sag = 0
       for (let k = 0; k < vs.length; k++) {
         if (k > 0) length += norm(sub(V, vs[k]!, vs[k - 1]!))
         const d = sub(V, vs[k]!, a)
@@ -58,20 +60,27 @@ export function cableFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame
 }
 
 /** [loop, point, fx, fy, fz] per frame point, kN (force on the frame point; see the file comment). */
-export function frameReactions(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame>): [number, number, number, number, number][] {
+export function frameReactions(
+  mesh: Readonly<MembraneMesh>,
+  frame: Readonly<Frame>,
+): [number, number, number, number, number][] {
   const V = mesh.vertices
   const nV = V.length / 3
   const sigma = (frame.prestress.warp + frame.prestress.fill) / 2
   const pull = new Float64Array(3 * nV)
   const segOpposite = new Map<number, number>()
   const key = (a: number, b: number): number => Math.min(a, b) * nV + Math.max(a, b)
-  for (const B of mesh.boundaryLoops) for (let k = 0; k < B.length; k++) segOpposite.set(key(B[k]!, B[(k + 1) % B.length]!), -1)
+  for (const B of mesh.boundaryLoops)
+    for (let k = 0; k < B.length; k++) segOpposite.set(key(B[k]!, B[(k + 1) % B.length]!), -1)
   const T = mesh.triangles
   for (let t = 0; t < T.length; t += 3) {
     for (let k = 0; k < 3; k++) {
-      const a = T[t + k]!, b = T[t + ((k + 1) % 3)]!, c = T[t + ((k + 2) % 3)]!
+      const a = T[t + k]!,
+        b = T[t + ((k + 1) % 3)]!,
+        c = T[t + ((k + 2) % 3)]!
       if (!segOpposite.has(key(a, b))) continue
-      const ab = sub(V, b, a), ac = sub(V, c, a)
+      const ab = sub(V, b, a),
+        ac = sub(V, c, a)
       const L = norm(ab)
       if (L === 0) continue
       const s = (ac[0] * ab[0] + ac[1] * ab[1] + ac[2] * ab[2]) / (L * L)
@@ -87,11 +96,14 @@ export function frameReactions(mesh: Readonly<MembraneMesh>, frame: Readonly<Fra
     const n = loop.points.length
     loop.edges.forEach((edge, e) => {
       const vs = edgeVertices(mesh, l, e)
-      const a = vs[0]!, b = vs[vs.length - 1]!
-      const fa = F[e]!, fb = F[(e + 1) % n]!
+      const a = vs[0]!,
+        b = vs[vs.length - 1]!
+      const fa = F[e]!,
+        fb = F[(e + 1) % n]!
       if (edge.kind === 'cable') {
         const T0 = edge.tension ?? 0
-        const da = sub(V, vs[1]!, a), db = sub(V, vs[vs.length - 2]!, b)
+        const da = sub(V, vs[1]!, a),
+          db = sub(V, vs[vs.length - 2]!, b)
         for (let d = 0; d < 3; d++) {
           fa[d]! += (T0 * da[d]!) / norm(da) + pull[3 * a + d]!
           fb[d]! += (T0 * db[d]!) / norm(db)

@@ -28,9 +28,15 @@ export interface FigureOptions {
 }
 
 /** Compute all figures. mesh.vertices must hold the solved positions (#V×3, m). */
-export function computeFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame>, options: FigureOptions = {}): Figures {
-  const V = mesh.vertices, T = mesh.triangles
-  const nV = V.length / 3, nT = T.length / 3
+export function computeFigures(
+  mesh: Readonly<MembraneMesh>,
+  frame: Readonly<Frame>,
+  options: FigureOptions = {},
+): Figures {
+  const V = mesh.vertices,
+    T = mesh.triangles
+  const nV = V.length / 3,
+    nT = T.length / 3
   const areas = faceAreas(new Float64Array(nT), V, T)
   const plans = planFaceAreas(new Float64Array(nT), V, T)
   const normals = faceNormals(new Float64Array(3 * nT), V, T)
@@ -38,8 +44,10 @@ export function computeFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Fra
   const isBoundary = new Uint8Array(nV)
   for (let v = 0; v < nV; v++) isBoundary[v] = mesh.vertexLoops[v]! >= 0 ? 1 : 0
 
-  let area = 0, planArea = 0
-  const vertexAreas = new Float64Array(nV), vertexPlanAreas = new Float64Array(nV)
+  let area = 0,
+    planArea = 0
+  const vertexAreas = new Float64Array(nV),
+    vertexPlanAreas = new Float64Array(nV)
   for (let t = 0; t < nT; t++) {
     area += areas[t]!
     planArea += Math.abs(plans[t]!)
@@ -48,18 +56,21 @@ export function computeFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Fra
       vertexPlanAreas[T[3 * t + k]!]! += Math.abs(plans[t]!) / 3
     }
   }
-  let zMin = Infinity, zMax = -Infinity
+  let zMin = Infinity,
+    zMax = -Infinity
   for (let v = 0; v < nV; v++) {
     zMin = Math.min(zMin, V[3 * v + 2]!)
     zMax = Math.max(zMax, V[3 * v + 2]!)
   }
-  let sMin = Infinity, sMax = -Infinity
+  let sMin = Infinity,
+    sMax = -Infinity
   for (let t = 0; t < nT; t++) {
     sMin = Math.min(sMin, slopes[t]!)
     sMax = Math.max(sMax, slopes[t]!)
   }
   const defects = vertexAngleDefects(new Float64Array(nV), V, T, isBoundary)
-  let anticlastic = 0, interiorArea = 0
+  let anticlastic = 0,
+    interiorArea = 0
   for (let v = 0; v < nV; v++) {
     if (isBoundary[v]) continue
     interiorArea += vertexAreas[v]!
@@ -68,13 +79,20 @@ export function computeFigures(mesh: Readonly<MembraneMesh>, frame: Readonly<Fra
   let perimeter = 0
   for (const B of mesh.boundaryLoops) {
     for (let k = 0; k < B.length; k++) {
-      const a = 3 * B[k]!, b = 3 * B[(k + 1) % B.length]!
+      const a = 3 * B[k]!,
+        b = 3 * B[(k + 1) % B.length]!
       perimeter += Math.hypot(V[b]! - V[a]!, V[b + 1]! - V[a + 1]!, V[b + 2]! - V[a + 2]!)
     }
   }
   const flatThreshold = options.flatThreshold ?? DEFAULT_FLAT_THRESHOLD
   const span = Math.max(Math.sqrt(planArea), zMax - zMin, 1e-9)
-  const pockets = pondingPockets(V, buildVertexNeighbours(nV, T), isBoundary, vertexPlanAreas, options.minPondingDepth ?? 1e-6 * span)
+  const pockets = pondingPockets(
+    V,
+    buildVertexNeighbours(nV, T),
+    isBoundary,
+    vertexPlanAreas,
+    options.minPondingDepth ?? 1e-6 * span,
+  )
   return {
     area,
     planArea,

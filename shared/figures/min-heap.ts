@@ -6,7 +6,8 @@ export class MinHeap {
 
   push(item: number, key: number): void {
     if (this.size === this.items.length) {
-      const items = new Int32Array(2 * this.size), keys = new Float64Array(2 * this.size)
+      const items = new Int32Array(2 * this.size),
+        keys = new Float64Array(2 * this.size)
       items.set(this.items)
       keys.set(this.keys)
       this.items = items
@@ -28,7 +29,8 @@ export class MinHeap {
   pop(): number {
     const top = this.items[0]!
     const n = --this.size
-    const item = this.items[n]!, key = this.keys[n]!
+    const item = this.items[n]!,
+      key = this.keys[n]!
     let i = 0
     for (;;) {
       let c = 2 * i + 1

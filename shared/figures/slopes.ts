@@ -24,8 +24,13 @@ export function slopeHistogram(slopes: Readonly<Float64Array>, areas: Readonly<F
 }
 
 /** Share of area (0..1) whose slope is below `threshold` degrees. */
-export function flatAreaShare(slopes: Readonly<Float64Array>, areas: Readonly<Float64Array>, threshold: number): number {
-  let flat = 0, total = 0
+export function flatAreaShare(
+  slopes: Readonly<Float64Array>,
+  areas: Readonly<Float64Array>,
+  threshold: number,
+): number {
+  let flat = 0,
+    total = 0
   for (let t = 0; t < slopes.length; t++) {
     total += areas[t]!
     if (slopes[t]! < threshold) flat += areas[t]!

@@ -8,7 +8,10 @@ import { DEFAULT_PRESTRESS, type FrameFile } from './schema'
  * ids `p<n>` for the outer loop and `h<loop>p<n>` for holes (1-based). Rigid edges drop a tension.
  */
 export function normaliseFrameFile(file: Readonly<FrameFile>): Frame {
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity
+  let minX = Infinity,
+    minY = Infinity,
+    maxX = -Infinity,
+    maxY = -Infinity
   for (const loop of file.loops) {
     for (const p of loop.points) {
       minX = Math.min(minX, p.x)

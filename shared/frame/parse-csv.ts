@@ -27,7 +27,11 @@ export function parseFrameCsv(text: string, options: CsvFrameOptions = {}): Fram
     const cells = line.split(',').map((c) => c.trim())
     if (index === firstDataLine(lines) && cells[0]?.toLowerCase() === 'loop') return
     if (cells.length < 4 || cells.length > 6) {
-      throw new FrameError('csv-syntax', `has ${cells.length} columns; expected loop,x,y,z[,edge,tension]`, `line ${lineNo}`)
+      throw new FrameError(
+        'csv-syntax',
+        `has ${cells.length} columns; expected loop,x,y,z[,edge,tension]`,
+        `line ${lineNo}`,
+      )
     }
     const where = (c: number): string => `line ${lineNo}, column ${COLUMNS[c]}`
     const num = (c: number): number => {
@@ -38,7 +42,8 @@ export function parseFrameCsv(text: string, options: CsvFrameOptions = {}): Fram
       return v
     }
     const label = cells[0]!.toLowerCase() === 'outer' ? '0' : cells[0]!
-    if (!/^\d+$/.test(label)) throw new FrameError('csv-syntax', `loop "${cells[0]}" must be "outer" or a whole number`, where(0))
+    if (!/^\d+$/.test(label))
+      throw new FrameError('csv-syntax', `loop "${cells[0]}" must be "outer" or a whole number`, where(0))
     const kind = (cells[4] ?? '').toLowerCase() || 'rigid'
     if (kind !== 'rigid' && kind !== 'cable') {
       throw new FrameError('unknown-edge-kind', `unknown edge kind "${cells[4]}"; use rigid or cable`, where(4))
@@ -60,7 +65,12 @@ export function parseFrameCsv(text: string, options: CsvFrameOptions = {}): Fram
   try {
     return parseFrameJson(file)
   } catch (err) {
-    throw err instanceof FrameError ? toCsvPlace(err, ordered.map(([, e]) => e.lines)) : err
+    throw err instanceof FrameError
+      ? toCsvPlace(
+          err,
+          ordered.map(([, e]) => e.lines),
+        )
+      : err
   }
 }
 

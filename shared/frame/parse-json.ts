@@ -27,7 +27,11 @@ export function frameErrorFromIssue(issue: z.core.$ZodIssue, input: unknown): Fr
     return new FrameError('not-finite', `must be a finite number (got ${value})`, field)
   }
   if (issue.path.at(-1) === 'kind' && issue.code === 'invalid_value') {
-    return new FrameError('unknown-edge-kind', `unknown edge kind ${JSON.stringify(value)}; use "rigid" or "cable"`, field)
+    return new FrameError(
+      'unknown-edge-kind',
+      `unknown edge kind ${JSON.stringify(value)}; use "rigid" or "cable"`,
+      field,
+    )
   }
   if (issue.code === 'too_big' && issue.path.at(-1) === 'points') {
     return new FrameError('too-many-points', issue.message, field)

@@ -22,17 +22,26 @@ export function validateFrame(frame: Readonly<Frame>): Frame {
   }
   const total = loops.reduce((s, l) => s + l.points.length, 0)
   if (total > MAX_FRAME_POINTS) {
-    throw new FrameError('too-many-points', `has ${total} frame points; at most ${MAX_FRAME_POINTS} are allowed`, 'loops')
+    throw new FrameError(
+      'too-many-points',
+      `has ${total} frame points; at most ${MAX_FRAME_POINTS} are allowed`,
+      'loops',
+    )
   }
   checkPhysics(frame)
   const tol = Math.max(frameSpan(loops), 1) * 1e-9
   const ids = new Set<string>()
   const plans = loops.map((loop, l) => {
     if (loop.points.length < 3) {
-      throw new FrameError('too-few-points', `has ${loop.points.length} points; a loop needs at least 3`, `loops[${l}].points`)
+      throw new FrameError(
+        'too-few-points',
+        `has ${loop.points.length} points; a loop needs at least 3`,
+        `loops[${l}].points`,
+      )
     }
     loop.points.forEach((p, i) => {
-      if (ids.has(p.id)) throw new FrameError('duplicate-id', `id "${p.id}" is used twice`, `loops[${l}].points[${i}].id`)
+      if (ids.has(p.id))
+        throw new FrameError('duplicate-id', `id "${p.id}" is used twice`, `loops[${l}].points[${i}].id`)
       ids.add(p.id)
     })
     const xy = loopPlan(loop)
@@ -45,22 +54,43 @@ export function validateFrame(frame: Readonly<Frame>): Frame {
     if (loopStrictlyInside(hole, outer, tol)) continue
     if (loopsApartInHeight(loops[l]!, loops[0]!, tol)) {
       if (loops.length !== 2) {
-        throw new FrameError('spatial-frame', 'overlaps the outer loop in plan (rings one above the other); such a frame may have only these two loops', `loops[${l}]`)
+        throw new FrameError(
+          'spatial-frame',
+          'overlaps the outer loop in plan (rings one above the other); such a frame may have only these two loops',
+          `loops[${l}]`,
+        )
       }
       continue
     }
     const touch = loopsTouch(hole, outer, tol)
     if (touch) {
-      throw new FrameError('loops-crossing', `edge ${touch[0]} crosses or touches edge ${touch[1]} of the outer loop`, `loops[${l}].edges[${touch[0]}]`)
+      throw new FrameError(
+        'loops-crossing',
+        `edge ${touch[0]} crosses or touches edge ${touch[1]} of the outer loop`,
+        `loops[${l}].edges[${touch[0]}]`,
+      )
     }
-    throw new FrameError('hole-outside', 'lies outside the outer loop in plan (and the two loops overlap in height)', `loops[${l}]`)
+    throw new FrameError(
+      'hole-outside',
+      'lies outside the outer loop in plan (and the two loops overlap in height)',
+      `loops[${l}]`,
+    )
   }
   for (let a = 1; a < loops.length; a++) {
     for (let b = a + 1; b < loops.length; b++) {
       const touch = loopsTouch(plans[a]!, plans[b]!, tol)
-      if (touch) throw new FrameError('loops-crossing', `edge ${touch[0]} crosses or touches edge ${touch[1]} of loops[${b}]`, `loops[${a}].edges[${touch[0]}]`)
+      if (touch)
+        throw new FrameError(
+          'loops-crossing',
+          `edge ${touch[0]} crosses or touches edge ${touch[1]} of loops[${b}]`,
+          `loops[${a}].edges[${touch[0]}]`,
+        )
       if (loopStrictlyInside(plans[a]!, plans[b]!, tol) || loopStrictlyInside(plans[b]!, plans[a]!, tol)) {
-        throw new FrameError('loops-crossing', `lies inside hole loops[${b}] (or contains it); holes must be side by side`, `loops[${a}]`)
+        throw new FrameError(
+          'loops-crossing',
+          `lies inside hole loops[${b}] (or contains it); holes must be side by side`,
+          `loops[${a}]`,
+        )
       }
     }
   }
@@ -69,10 +99,16 @@ export function validateFrame(frame: Readonly<Frame>): Frame {
 }
 
 function checkPhysics(frame: Readonly<Frame>): void {
-  if (!(frame.prestress.warp > 0)) throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.warp})`, 'prestress.warp')
-  if (!(frame.prestress.fill > 0)) throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.fill})`, 'prestress.fill')
+  if (!(frame.prestress.warp > 0))
+    throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.warp})`, 'prestress.warp')
+  if (!(frame.prestress.fill > 0))
+    throw new FrameError('prestress', `must be > 0 kN/m (got ${frame.prestress.fill})`, 'prestress.fill')
   if (!Number.isFinite(frame.prestress.warpAngle)) {
-    throw new FrameError('prestress', `must be an angle in degrees from +x (got ${frame.prestress.warpAngle})`, 'prestress.warpAngle')
+    throw new FrameError(
+      'prestress',
+      `must be an angle in degrees from +x (got ${frame.prestress.warpAngle})`,
+      'prestress.warpAngle',
+    )
   }
   if (!(frame.mesh.edgeLength > 0)) {
     throw new FrameError('edge-length', `must be > 0 m (got ${frame.mesh.edgeLength})`, 'mesh.edgeLength')
@@ -80,8 +116,10 @@ function checkPhysics(frame: Readonly<Frame>): void {
   frame.loops.forEach((loop, l) =>
     loop.edges.forEach((e, i) => {
       if (e.kind !== 'cable') return
-      if (e.tension === undefined) throw new FrameError('cable-tension', 'a cable edge needs a tension in kN', `loops[${l}].edges[${i}].tension`)
-      if (!(e.tension > 0)) throw new FrameError('cable-tension', `must be > 0 kN (got ${e.tension})`, `loops[${l}].edges[${i}].tension`)
+      if (e.tension === undefined)
+        throw new FrameError('cable-tension', 'a cable edge needs a tension in kN', `loops[${l}].edges[${i}].tension`)
+      if (!(e.tension > 0))
+        throw new FrameError('cable-tension', `must be > 0 kN (got ${e.tension})`, `loops[${l}].edges[${i}].tension`)
     }),
   )
 }
@@ -102,10 +140,21 @@ function checkLoopShape(xy: Float64Array, l: number, tol: number): void {
       const a = [xy[2 * i]!, xy[2 * i + 1]!, xy[2 * i2]!, xy[2 * i2 + 1]!] as const
       const b = [xy[2 * j]!, xy[2 * j + 1]!, xy[2 * j2]!, xy[2 * j2 + 1]!] as const
       let bad: boolean
-      if (j === i2) bad = pointSegmentDistance(b[2], b[3], a[0], a[1], a[2], a[3]) <= tol || pointSegmentDistance(a[0], a[1], b[0], b[1], b[2], b[3]) <= tol
-      else if (j2 === i) bad = pointSegmentDistance(a[2], a[3], b[0], b[1], b[2], b[3]) <= tol || pointSegmentDistance(b[0], b[1], a[0], a[1], a[2], a[3]) <= tol
+      if (j === i2)
+        bad =
+          pointSegmentDistance(b[2], b[3], a[0], a[1], a[2], a[3]) <= tol ||
+          pointSegmentDistance(a[0], a[1], b[0], b[1], b[2], b[3]) <= tol
+      else if (j2 === i)
+        bad =
+          pointSegmentDistance(a[2], a[3], b[0], b[1], b[2], b[3]) <= tol ||
+          pointSegmentDistance(b[0], b[1], a[0], a[1], a[2], a[3]) <= tol
       else bad = segmentsTouch(a[0], a[1], a[2], a[3], b[0], b[1], b[2], b[3], tol)
-      if (bad) throw new FrameError('self-crossing', `edge ${i} crosses or touches edge ${j} of the same loop`, `loops[${l}].edges[${i}]`)
+      if (bad)
+        throw new FrameError(
+          'self-crossing',
+          `edge ${i} crosses or touches edge ${j} of the same loop`,
+          `loops[${l}].edges[${i}]`,
+        )
     }
   }
   if (Math.abs(loopSignedArea(xy)) <= tol * tol) {
@@ -128,7 +177,8 @@ function meshedArea(frame: Readonly<Frame>, plans: readonly Float64Array[]): num
         return s + Math.hypot(q.x - p.x, q.y - p.y, q.z - p.z)
       }, 0)
     const [a, b] = frame.loops as [Frame['loops'][number], Frame['loops'][number]]
-    const mean = (loop: typeof a, k: 'x' | 'y' | 'z'): number => loop.points.reduce((s, p) => s + p[k], 0) / loop.points.length
+    const mean = (loop: typeof a, k: 'x' | 'y' | 'z'): number =>
+      loop.points.reduce((s, p) => s + p[k], 0) / loop.points.length
     const gap = Math.hypot(mean(a, 'x') - mean(b, 'x'), mean(a, 'y') - mean(b, 'y'), mean(a, 'z') - mean(b, 'z'))
     return ((perim(a) + perim(b)) / 2) * Math.max(gap, h)
   }

@@ -15,7 +15,8 @@ export const LATTICE_AREA_PER_VERTEX = Math.sqrt(3) / 2
 export const estimatedVertexCount = (area: number, h: number): number => area / (LATTICE_AREA_PER_VERTEX * h * h)
 
 /** The element size (m) at which `area` m² meshes to about `vertices` vertices. */
-export const edgeLengthFor = (area: number, vertices: number): number => Math.sqrt(area / (LATTICE_AREA_PER_VERTEX * vertices))
+export const edgeLengthFor = (area: number, vertices: number): number =>
+  Math.sqrt(area / (LATTICE_AREA_PER_VERTEX * vertices))
 
 /**
  * xyz: #B×3 boundary samples (m); segments: closed loops as index pairs into them (every loop's
@@ -28,7 +29,10 @@ export function latticePoints(
   h: number,
   gap: number,
 ): Float64Array {
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity
+  let minX = Infinity,
+    minY = Infinity,
+    maxX = -Infinity,
+    maxY = -Infinity
   for (let i = 0; i < xyz.length; i += 3) {
     minX = Math.min(minX, xyz[i]!)
     maxX = Math.max(maxX, xyz[i]!)
@@ -41,9 +45,13 @@ export function latticePoints(
   const y0 = minY + (maxY - minY - rows * dy) / 2
   const crossings: number[][] = Array.from({ length: rows + 1 }, () => [])
   for (const [p, q] of segments) {
-    const ax = xyz[3 * p]!, ay = xyz[3 * p + 1]!, bx = xyz[3 * q]!, by = xyz[3 * q + 1]!
+    const ax = xyz[3 * p]!,
+      ay = xyz[3 * p + 1]!,
+      bx = xyz[3 * q]!,
+      by = xyz[3 * q + 1]!
     if (ay === by) continue
-    const lo = Math.min(ay, by), hi = Math.max(ay, by)
+    const lo = Math.min(ay, by),
+      hi = Math.max(ay, by)
     const r0 = Math.max(0, Math.ceil((lo - y0) / dy))
     const r1 = Math.min(rows, Math.floor((hi - y0) / dy))
     for (let r = r0; r <= r1; r++) {
@@ -59,7 +67,8 @@ export function latticePoints(
     const y = y0 + r * dy
     const shift = r % 2 === 0 ? 0 : h / 2
     for (let k = 0; k + 1 < xs.length; k += 2) {
-      const a = xs[k]!, b = xs[k + 1]!
+      const a = xs[k]!,
+        b = xs[k + 1]!
       const start = Math.ceil((a - minX - shift) / h)
       for (let x = minX + shift + start * h; x < b; x += h) {
         if (!grid.near(x, y, gap)) out.push(x, y)
@@ -98,8 +107,10 @@ class SegmentGrid {
   private forCells(visit: (cell: number, segment: number) => void): void {
     const xyz = this.xyz
     this.segments.forEach(([p, q], s) => {
-      const cx0 = this.cx(Math.min(xyz[3 * p]!, xyz[3 * q]!)), cx1 = this.cx(Math.max(xyz[3 * p]!, xyz[3 * q]!))
-      const cy0 = this.cy(Math.min(xyz[3 * p + 1]!, xyz[3 * q + 1]!)), cy1 = this.cy(Math.max(xyz[3 * p + 1]!, xyz[3 * q + 1]!))
+      const cx0 = this.cx(Math.min(xyz[3 * p]!, xyz[3 * q]!)),
+        cx1 = this.cx(Math.max(xyz[3 * p]!, xyz[3 * q]!))
+      const cy0 = this.cy(Math.min(xyz[3 * p + 1]!, xyz[3 * q + 1]!)),
+        cy1 = this.cy(Math.max(xyz[3 * p + 1]!, xyz[3 * q + 1]!))
       for (let i = cx0; i <= cx1; i++) for (let j = cy0; j <= cy1; j++) visit(i * this.ny + j, s)
     })
   }
@@ -113,7 +124,8 @@ class SegmentGrid {
 
   /** Is a segment within d (≤ cell size) of (x, y)? */
   near(x: number, y: number, d: number): boolean {
-    const i0 = this.cx(x), j0 = this.cy(y)
+    const i0 = this.cx(x),
+      j0 = this.cy(y)
     const xyz = this.xyz
     for (let i = i0 - 1; i <= i0 + 1; i++) {
       for (let j = j0 - 1; j <= j0 + 1; j++) {

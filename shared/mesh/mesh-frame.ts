@@ -59,8 +59,18 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
   const triangles = new Uint32Array(3 * keep.length)
   keep.forEach((t, k) => {
     const a = del.triangles[3 * t]!
-    let bb = del.triangles[3 * t + 1]!, c = del.triangles[3 * t + 2]!
-    if (orient(coords[2 * a]!, coords[2 * a + 1]!, coords[2 * bb]!, coords[2 * bb + 1]!, coords[2 * c]!, coords[2 * c + 1]!) < 0) {
+    let bb = del.triangles[3 * t + 1]!,
+      c = del.triangles[3 * t + 2]!
+    if (
+      orient(
+        coords[2 * a]!,
+        coords[2 * a + 1]!,
+        coords[2 * bb]!,
+        coords[2 * bb + 1]!,
+        coords[2 * c]!,
+        coords[2 * c + 1]!,
+      ) < 0
+    ) {
       const s = bb
       bb = c
       c = s
@@ -105,7 +115,10 @@ export function meshFrame(frame: Readonly<Frame>): MembraneMesh {
 
 /** Corners (#4×2) of the samples' bounding box grown by half its size plus h on every side. */
 function boxCorners(xyz: readonly number[], h: number): number[] {
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity
+  let minX = Infinity,
+    minY = Infinity,
+    maxX = -Infinity,
+    maxY = -Infinity
   for (let i = 0; i < xyz.length; i += 3) {
     minX = Math.min(minX, xyz[i]!)
     maxX = Math.max(maxX, xyz[i]!)
@@ -161,7 +174,8 @@ function firstGuessHeights(
       V[3 * v + 2] = mean
       continue
     }
-    let sw = 0, sz = 0
+    let sw = 0,
+      sz = 0
     for (const p of pts) {
       const w = 1 / Math.max((V[3 * v]! - p.x) ** 2 + (V[3 * v + 1]! - p.y) ** 2, 1e-30)
       sw += w
@@ -172,7 +186,8 @@ function firstGuessHeights(
   for (let s = 0; s < 2; s++) {
     for (let v = nB; v < nV; v++) {
       let z = 0
-      const a = nb.start[v]!, e = nb.start[v + 1]!
+      const a = nb.start[v]!,
+        e = nb.start[v + 1]!
       for (let k = a; k < e; k++) z += V[3 * nb.list[k]! + 2]!
       if (e > a) V[3 * v + 2] = z / (e - a)
     }

@@ -28,7 +28,8 @@ export interface ParametricMesh {
  * Vertex index of ring k, slot i is k·n + i; the hole's slots follow its own point order.
  */
 export function meshParametric(frame: Readonly<Frame>): ParametricMesh {
-  if (frame.loops.length !== 2) throw new MeshError('loops', 'a parametric mesh needs exactly two loops (outer and one hole)')
+  if (frame.loops.length !== 2)
+    throw new MeshError('loops', 'a parametric mesh needs exactly two loops (outer and one hole)')
   const h = frame.mesh.edgeLength
   const perims = frame.loops.map((loop) =>
     loop.points.reduce((s, p, i) => {
@@ -40,16 +41,19 @@ export function meshParametric(frame: Readonly<Frame>): ParametricMesh {
   const n = Math.max(12, counts[0]!, counts[1]!, Math.round((perims[0]! + perims[1]!) / (2 * h)))
   const divisions = frame.loops.map((loop, l) => edgeDivisions(frame, l, n, perims[l]!))
   const b = resampleLoops(frame, (l, e) => divisions[l]![e]!)
-  const outer = b.loops[0]!, hole = b.loops[1]!
+  const outer = b.loops[0]!,
+    hole = b.loops[1]!
   const P = (k: number, c: number): number => b.xyz[3 * k + c]!
   const { shift, dir } = bestMatch(n, (i, j) => {
-    const a = outer[i]!, c = hole[j]!
+    const a = outer[i]!,
+      c = hole[j]!
     return (P(a, 0) - P(c, 0)) ** 2 + (P(a, 1) - P(c, 1)) ** 2 + (P(a, 2) - P(c, 2)) ** 2
   })
   const match = (i: number): number => (((shift + dir * i) % n) + n) % n
   let gap = 0
   for (let i = 0; i < n; i++) {
-    const a = outer[i]!, c = hole[match(i)]!
+    const a = outer[i]!,
+      c = hole[match(i)]!
     gap += Math.hypot(P(a, 0) - P(c, 0), P(a, 1) - P(c, 1), P(a, 2) - P(c, 2)) / n
   }
   const rings = Math.max(3, Math.round(gap / h) + 1)
@@ -71,7 +75,8 @@ export function meshParametric(frame: Readonly<Frame>): ParametricMesh {
     const r = rho ** s
     for (let i = 0; i < n; i++) {
       const v = slotVertex(k, i)
-      const a = outer[i]!, c = hole[match(i)]!
+      const a = outer[i]!,
+        c = hole[match(i)]!
       for (let d = 0; d < 3; d++) vertices[3 * v + d] = (1 - s) * P(a, d) + s * P(c, d)
       const th = (1 - s) * thetaOuter[i]! + s * thetaHole[i]!
       uv[2 * v] = r * Math.cos(th)
@@ -89,8 +94,10 @@ export function meshParametric(frame: Readonly<Frame>): ParametricMesh {
   let t = 0
   for (let k = 0; k + 1 < rings; k++) {
     for (let i = 0; i < n; i++) {
-      const a = slotVertex(k, i), bb = slotVertex(k, (i + 1) % n)
-      const c = slotVertex(k + 1, (i + 1) % n), d = slotVertex(k + 1, i)
+      const a = slotVertex(k, i),
+        bb = slotVertex(k, (i + 1) % n)
+      const c = slotVertex(k + 1, (i + 1) % n),
+        d = slotVertex(k + 1, i)
       // Alternate the diagonal so the strip has no preferred shear direction.
       const quad = (k + i) % 2 === 0 ? [a, bb, c, a, c, d] : [a, bb, d, bb, c, d]
       triangles.set(quad, t)
@@ -133,7 +140,8 @@ function edgeDivisions(frame: Readonly<Frame>, l: number, n: number, perimeter: 
 
 /** Rotation and direction of the hole's slots minimising Σ cost(i, match(i)). O(n²). */
 function bestMatch(n: number, cost: (i: number, j: number) => number): { shift: number; dir: 1 | -1 } {
-  let best = { shift: 0, dir: 1 as 1 | -1 }, bestCost = Infinity
+  let best = { shift: 0, dir: 1 as 1 | -1 },
+    bestCost = Infinity
   for (const dir of [1, -1] as const) {
     for (let shift = 0; shift < n; shift++) {
       let c = 0
@@ -151,7 +159,8 @@ function bestMatch(n: number, cost: (i: number, j: number) => number): { shift: 
 function arcAngles(n: number, slot: (i: number) => number, xyz: readonly number[]): Float64Array {
   const acc = new Float64Array(n + 1)
   for (let i = 0; i < n; i++) {
-    const a = 3 * slot(i), c = 3 * slot((i + 1) % n)
+    const a = 3 * slot(i),
+      c = 3 * slot((i + 1) % n)
     acc[i + 1] = acc[i]! + Math.hypot(xyz[c]! - xyz[a]!, xyz[c + 1]! - xyz[a + 1]!, xyz[c + 2]! - xyz[a + 2]!)
   }
   const out = new Float64Array(n)
@@ -161,7 +170,9 @@ function arcAngles(n: number, slot: (i: number) => number, xyz: readonly number[
 
 function orientCounterClockwise(uv: Float64Array, T: Uint32Array): void {
   for (let t = 0; t < T.length; t += 3) {
-    const a = 2 * T[t]!, b = 2 * T[t + 1]!, c = 2 * T[t + 2]!
+    const a = 2 * T[t]!,
+      b = 2 * T[t + 1]!,
+      c = 2 * T[t + 2]!
     const s = (uv[b]! - uv[a]!) * (uv[c + 1]! - uv[a + 1]!) - (uv[b + 1]! - uv[a + 1]!) * (uv[c]! - uv[a]!)
     if (s < 0) {
       const x = T[t + 1]!
@@ -175,8 +186,13 @@ function uvMinAngle(uv: Float64Array, T: Uint32Array): number {
   let m = Math.PI
   for (let t = 0; t < T.length; t += 3) {
     for (let k = 0; k < 3; k++) {
-      const p = 2 * T[t + k]!, q = 2 * T[t + ((k + 1) % 3)]!, r = 2 * T[t + ((k + 2) % 3)]!
-      const ux = uv[q]! - uv[p]!, uy = uv[q + 1]! - uv[p + 1]!, vx = uv[r]! - uv[p]!, vy = uv[r + 1]! - uv[p + 1]!
+      const p = 2 * T[t + k]!,
+        q = 2 * T[t + ((k + 1) % 3)]!,
+        r = 2 * T[t + ((k + 2) % 3)]!
+      const ux = uv[q]! - uv[p]!,
+        uy = uv[q + 1]! - uv[p + 1]!,
+        vx = uv[r]! - uv[p]!,
+        vy = uv[r + 1]! - uv[p + 1]!
       m = Math.min(m, Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy))
     }
   }

@@ -18,7 +18,10 @@ export function pointInLoop(x: number, y: number, xy: Readonly<ArrayLike<number>
   const n = xy.length / 2
   let inside = false
   for (let i = 0, j = n - 1; i < n; j = i++) {
-    const xi = xy[2 * i]!, yi = xy[2 * i + 1]!, xj = xy[2 * j]!, yj = xy[2 * j + 1]!
+    const xi = xy[2 * i]!,
+      yi = xy[2 * i + 1]!,
+      xj = xy[2 * j]!,
+      yj = xy[2 * j + 1]!
     if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside
   }
   return inside
@@ -34,8 +37,14 @@ export function orient(ax: number, ay: number, bx: number, by: number, cx: numbe
  * a point counts as lying on a segment.
  */
 export function segmentsTouch(
-  p1x: number, p1y: number, p2x: number, p2y: number,
-  q1x: number, q1y: number, q2x: number, q2y: number,
+  p1x: number,
+  p1y: number,
+  p2x: number,
+  p2y: number,
+  q1x: number,
+  q1y: number,
+  q2x: number,
+  q2y: number,
   tol: number,
 ): boolean {
   const lp = Math.hypot(p2x - p1x, p2y - p1y)
@@ -58,7 +67,8 @@ export function segmentsTouch(
 
 /** Distance from (px, py) to the closed segment ab, m. */
 export function pointSegmentDistance(px: number, py: number, ax: number, ay: number, bx: number, by: number): number {
-  const dx = bx - ax, dy = by - ay
+  const dx = bx - ax,
+    dy = by - ay
   const l2 = dx * dx + dy * dy
   let t = l2 > 0 ? ((px - ax) * dx + (py - ay) * dy) / l2 : 0
   t = t < 0 ? 0 : t > 1 ? 1 : t

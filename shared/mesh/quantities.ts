@@ -9,8 +9,12 @@ function crossOfFace(V: Readonly<Float64Array>, T: Readonly<Uint32Array>, t: num
   const a = 3 * T[3 * t]!
   const b = 3 * T[3 * t + 1]!
   const c = 3 * T[3 * t + 2]!
-  const ux = V[b]! - V[a]!, uy = V[b + 1]! - V[a + 1]!, uz = V[b + 2]! - V[a + 2]!
-  const vx = V[c]! - V[a]!, vy = V[c + 1]! - V[a + 1]!, vz = V[c + 2]! - V[a + 2]!
+  const ux = V[b]! - V[a]!,
+    uy = V[b + 1]! - V[a + 1]!,
+    uz = V[b + 2]! - V[a + 2]!
+  const vx = V[c]! - V[a]!,
+    vy = V[c + 1]! - V[a + 1]!,
+    vz = V[c + 2]! - V[a + 2]!
   o[k] = uy * vz - uz * vy
   o[k + 1] = uz * vx - ux * vz
   o[k + 2] = ux * vy - uy * vx
@@ -56,7 +60,9 @@ export function faceNormals(out: Float64Array, V: Readonly<Float64Array>, T: Rea
 export function planFaceAreas(out: Float64Array, V: Readonly<Float64Array>, T: Readonly<Uint32Array>): Float64Array {
   const n = T.length / 3
   for (let t = 0; t < n; t++) {
-    const a = 3 * T[3 * t]!, b = 3 * T[3 * t + 1]!, c = 3 * T[3 * t + 2]!
+    const a = 3 * T[3 * t]!,
+      b = 3 * T[3 * t + 1]!,
+      c = 3 * T[3 * t + 2]!
     out[t] = 0.5 * ((V[b]! - V[a]!) * (V[c + 1]! - V[a + 1]!) - (V[b + 1]! - V[a + 1]!) * (V[c]! - V[a]!))
   }
   return out
@@ -67,8 +73,12 @@ export function cornerAngle(V: Readonly<Float64Array>, T: Readonly<Uint32Array>,
   const p = 3 * T[3 * t + k]!
   const q = 3 * T[3 * t + ((k + 1) % 3)]!
   const r = 3 * T[3 * t + ((k + 2) % 3)]!
-  const ux = V[q]! - V[p]!, uy = V[q + 1]! - V[p + 1]!, uz = V[q + 2]! - V[p + 2]!
-  const vx = V[r]! - V[p]!, vy = V[r + 1]! - V[p + 1]!, vz = V[r + 2]! - V[p + 2]!
+  const ux = V[q]! - V[p]!,
+    uy = V[q + 1]! - V[p + 1]!,
+    uz = V[q + 2]! - V[p + 2]!
+  const vx = V[r]! - V[p]!,
+    vy = V[r + 1]! - V[p + 1]!,
+    vz = V[r + 2]! - V[p + 2]!
   const dot = ux * vx + uy * vy + uz * vz
   const cross = Math.hypot(uy * vz - uz * vy, uz * vx - ux * vz, ux * vy - uy * vx)
   return Math.atan2(cross, dot)
@@ -98,17 +108,24 @@ export function meshMinAngle(V: Readonly<Float64Array>, T: Readonly<Uint32Array>
 export function meshPlanMinAngle(V: Readonly<Float64Array>, T: Readonly<Uint32Array>): number {
   let m = Math.PI
   for (let t = 0; t < T.length; t += 3) {
-    let best = 0, shortest = Infinity
+    let best = 0,
+      shortest = Infinity
     for (let k = 0; k < 3; k++) {
-      const q = 3 * T[t + ((k + 1) % 3)]!, r = 3 * T[t + ((k + 2) % 3)]!
+      const q = 3 * T[t + ((k + 1) % 3)]!,
+        r = 3 * T[t + ((k + 2) % 3)]!
       const l2 = (V[r]! - V[q]!) ** 2 + (V[r + 1]! - V[q + 1]!) ** 2
       if (l2 < shortest) {
         shortest = l2
         best = k
       }
     }
-    const p = 3 * T[t + best]!, q = 3 * T[t + ((best + 1) % 3)]!, r = 3 * T[t + ((best + 2) % 3)]!
-    const ux = V[q]! - V[p]!, uy = V[q + 1]! - V[p + 1]!, vx = V[r]! - V[p]!, vy = V[r + 1]! - V[p + 1]!
+    const p = 3 * T[t + best]!,
+      q = 3 * T[t + ((best + 1) % 3)]!,
+      r = 3 * T[t + ((best + 2) % 3)]!
+    const ux = V[q]! - V[p]!,
+      uy = V[q + 1]! - V[p + 1]!,
+      vx = V[r]! - V[p]!,
+      vy = V[r + 1]! - V[p + 1]!
     const ang = Math.atan2(Math.abs(ux * vy - uy * vx), ux * vx + uy * vy)
     if (ang < m) m = ang
   }
@@ -127,8 +144,12 @@ export function edgeCotanWeights(V: Readonly<Float64Array>, T: Readonly<Uint32Ar
       const p = 3 * T[3 * t + k]!
       const q = 3 * T[3 * t + ((k + 1) % 3)]!
       const r = 3 * T[3 * t + ((k + 2) % 3)]!
-      const ux = V[q]! - V[p]!, uy = V[q + 1]! - V[p + 1]!, uz = V[q + 2]! - V[p + 2]!
-      const vx = V[r]! - V[p]!, vy = V[r + 1]! - V[p + 1]!, vz = V[r + 2]! - V[p + 2]!
+      const ux = V[q]! - V[p]!,
+        uy = V[q + 1]! - V[p + 1]!,
+        uz = V[q + 2]! - V[p + 2]!
+      const vx = V[r]! - V[p]!,
+        vy = V[r + 1]! - V[p + 1]!,
+        vz = V[r + 2]! - V[p + 2]!
       const cross = Math.hypot(uy * vz - uz * vy, uz * vx - ux * vz, ux * vy - uy * vx)
       out[3 * t + k] = cross > 0 ? (0.5 * (ux * vx + uy * vy + uz * vz)) / cross : 0
     }

@@ -32,10 +32,13 @@ export function remapMesh(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame>):
     B.forEach((v, k) => (mesh.vertexPoints[v]! >= 0 ? corners.push(k) : undefined))
     if (corners.length !== loop.points.length) return null
     for (let c = 0; c < corners.length; c++) {
-      const k0 = corners[c]!, k1 = c + 1 < corners.length ? corners[c + 1]! : corners[0]! + B.length
-      const a = B[k0]!, b = B[k1 % B.length]!
+      const k0 = corners[c]!,
+        k1 = c + 1 < corners.length ? corners[c + 1]! : corners[0]! + B.length
+      const a = B[k0]!,
+        b = B[k1 % B.length]!
       if (mesh.vertexPoints[a] !== c) return null
-      const p = loop.points[c]!, q = loop.points[(c + 1) % loop.points.length]!
+      const p = loop.points[c]!,
+        q = loop.points[(c + 1) % loop.points.length]!
       moves.push(V0[3 * a]!, V0[3 * a + 1]!, p.x - V0[3 * a]!, p.y - V0[3 * a + 1]!, p.z - V0[3 * a + 2]!)
       const chord = Math.hypot(V0[3 * b]! - V0[3 * a]!, V0[3 * b + 1]! - V0[3 * a + 1]!)
       for (let k = k0; k < k1; k++) {
@@ -57,7 +60,13 @@ export function remapMesh(mesh: Readonly<MembraneMesh>, frame: Readonly<Frame>):
 }
 
 /** Shepard blend of the frame point moves, then Jacobi-free Gauss–Seidel sweeps of the displacement. */
-function moveInterior(V0: Float64Array, V: Float64Array, isBoundary: Uint8Array, moves: number[], T: Readonly<Uint32Array>): void {
+function moveInterior(
+  V0: Float64Array,
+  V: Float64Array,
+  isBoundary: Uint8Array,
+  moves: number[],
+  T: Readonly<Uint32Array>,
+): void {
   const nV = V0.length / 3
   const nm = moves.length / 5
   const D = new Float64Array(3 * nV)
@@ -67,7 +76,10 @@ function moveInterior(V0: Float64Array, V: Float64Array, isBoundary: Uint8Array,
       continue
     }
     if (nm > MAX_SHEPARD_POINTS) continue
-    let sw = 0, dx = 0, dy = 0, dz = 0
+    let sw = 0,
+      dx = 0,
+      dy = 0,
+      dz = 0
     for (let i = 0; i < nm; i++) {
       const w = 1 / Math.max((V0[3 * v]! - moves[5 * i]!) ** 2 + (V0[3 * v + 1]! - moves[5 * i + 1]!) ** 2, 1e-30)
       sw += w
@@ -83,7 +95,8 @@ function moveInterior(V0: Float64Array, V: Float64Array, isBoundary: Uint8Array,
   for (let s = 0; s < RELAX_SWEEPS; s++) {
     for (let v = 0; v < nV; v++) {
       if (isBoundary[v]) continue
-      const a = nb.start[v]!, e = nb.start[v + 1]!
+      const a = nb.start[v]!,
+        e = nb.start[v + 1]!
       for (let d = 0; d < 3; d++) {
         let sum = 0
         for (let k = a; k < e; k++) sum += D[3 * nb.list[k]! + d]!
@@ -91,5 +104,6 @@ function moveInterior(V0: Float64Array, V: Float64Array, isBoundary: Uint8Array,
       }
     }
   }
-  for (let v = 0; v < nV; v++) if (!isBoundary[v]) for (let d = 0; d < 3; d++) V[3 * v + d] = V0[3 * v + d]! + D[3 * v + d]!
+  for (let v = 0; v < nV; v++)
+    if (!isBoundary[v]) for (let d = 0; d < 3; d++) V[3 * v + d] = V0[3 * v + d]! + D[3 * v + d]!
 }

@@ -38,9 +38,13 @@ function buildVertexFaces(nV: number, T: Readonly<Uint32Array>, which: Readonly<
 function planTriangleMinAngle(coords: Readonly<Float64Array>, T: Readonly<Uint32Array>, t: number): number {
   let m = Math.PI
   for (let k = 0; k < 3; k++) {
-    const p = 2 * T[3 * t + k]!, q = 2 * T[3 * t + ((k + 1) % 3)]!, r = 2 * T[3 * t + ((k + 2) % 3)]!
-    const ux = coords[q]! - coords[p]!, uy = coords[q + 1]! - coords[p + 1]!
-    const vx = coords[r]! - coords[p]!, vy = coords[r + 1]! - coords[p + 1]!
+    const p = 2 * T[3 * t + k]!,
+      q = 2 * T[3 * t + ((k + 1) % 3)]!,
+      r = 2 * T[3 * t + ((k + 2) % 3)]!
+    const ux = coords[q]! - coords[p]!,
+      uy = coords[q + 1]! - coords[p + 1]!
+    const vx = coords[r]! - coords[p]!,
+      vy = coords[r + 1]! - coords[p + 1]!
     const cross = ux * vy - uy * vx
     // A turned-over triangle scores below every valid one.
     const ang = cross <= 0 ? -1 : Math.atan2(cross, ux * vx + uy * vy)
@@ -67,19 +71,23 @@ export function smoothInterior(
   const Tc = T
   const starMin = (v: number): number => {
     let m = Math.PI
-    for (let k = faces.start[v]!; k < faces.start[v + 1]!; k++) m = Math.min(m, planTriangleMinAngle(coords, Tc, faces.list[k]!))
+    for (let k = faces.start[v]!; k < faces.start[v + 1]!; k++)
+      m = Math.min(m, planTriangleMinAngle(coords, Tc, faces.list[k]!))
     return m
   }
   const wellShaped = (50 * Math.PI) / 180
   for (let s = 0; s < sweeps; s++) {
     for (let v = 0; v < nV; v++) {
       if (!isInterior[v]) continue
-      const a = nb.start[v]!, e = nb.start[v + 1]!
+      const a = nb.start[v]!,
+        e = nb.start[v + 1]!
       if (e === a) continue
       const before = starMin(v)
       if (before >= wellShaped) continue
-      const ox = coords[2 * v]!, oy = coords[2 * v + 1]!
-      let x = 0, y = 0
+      const ox = coords[2 * v]!,
+        oy = coords[2 * v + 1]!
+      let x = 0,
+        y = 0
       for (let k = a; k < e; k++) {
         x += coords[2 * nb.list[k]!]!
         y += coords[2 * nb.list[k]! + 1]!

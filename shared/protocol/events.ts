@@ -20,7 +20,10 @@ import {
 const uuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
 /** A room id as the API hands them out (UUID), lower-cased. */
-export const roomIdSchema = z.string().regex(uuid, 'must be a room id (UUID)').transform((s) => s.toLowerCase())
+export const roomIdSchema = z
+  .string()
+  .regex(uuid, 'must be a room id (UUID)')
+  .transform((s) => s.toLowerCase())
 
 /** Body of `room:join` and `room:leave`. */
 export const roomRefSchema = z.object({ roomId: roomIdSchema })

@@ -1,10 +1,18 @@
 /** Review pins as the API returns them and the `pin:changed` / `pin:deleted` events carry them. */
 import { z } from 'zod'
 
-const person = z.object({ id: z.string().min(1), name: z.string() }).nullable().catch(null)
+const person = z
+  .object({ id: z.string().min(1), name: z.string() })
+  .nullable()
+  .catch(null)
 const num = z.number()
 
-export const pinReplySchema = z.object({ id: z.string().min(1), body: z.string(), author: person, createdAt: z.string() })
+export const pinReplySchema = z.object({
+  id: z.string().min(1),
+  body: z.string(),
+  author: person,
+  createdAt: z.string(),
+})
 
 /** A pin: a point of the surface (metres), the document version it was placed on, its thread. */
 export const pinSchema = z.object({

@@ -23,7 +23,8 @@ const words: Record<SolverReason, string> = {
   'solver-error': 'the solver stopped with an error',
   'not-converged': 'the solver did not settle',
   diverged: 'the shape ran away instead of settling',
-  'no-equilibrium': 'no equilibrium shape exists for this frame and these tensions (a neck pinches off or the surface collapses)',
+  'no-equilibrium':
+    'no equilibrium shape exists for this frame and these tensions (a neck pinches off or the surface collapses)',
   cancelled: 'a newer edit replaced this solve',
   'iteration-limit': 'the solver used all its iterations before settling',
   stalled: 'the solver stopped making progress before settling',

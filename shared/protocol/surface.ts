@@ -99,12 +99,18 @@ export const solverReportSchema = z.object({
 
 /** Every triangle index names a vertex; lengths are whole #×3. */
 function checkMesh(s: SurfaceMesh, ctx: z.core.$RefinementCtx): void {
-  if (s.vertices.length % 3 !== 0) ctx.addIssue({ code: 'custom', path: ['vertices'], message: 'length is not a multiple of 3' })
-  if (s.triangles.length % 3 !== 0) ctx.addIssue({ code: 'custom', path: ['triangles'], message: 'length is not a multiple of 3' })
+  if (s.vertices.length % 3 !== 0)
+    ctx.addIssue({ code: 'custom', path: ['vertices'], message: 'length is not a multiple of 3' })
+  if (s.triangles.length % 3 !== 0)
+    ctx.addIssue({ code: 'custom', path: ['triangles'], message: 'length is not a multiple of 3' })
   const count = Math.floor(s.vertices.length / 3)
   for (const index of s.triangles) {
     if (index >= count) {
-      ctx.addIssue({ code: 'custom', path: ['triangles'], message: `vertex index ${index} is out of range (${count} vertices)` })
+      ctx.addIssue({
+        code: 'custom',
+        path: ['triangles'],
+        message: `vertex index ${index} is out of range (${count} vertices)`,
+      })
       return
     }
   }
@@ -114,9 +120,14 @@ function checkMesh(s: SurfaceMesh, ctx: z.core.$RefinementCtx): void {
 export const surfaceMeshJsonSchema = z
   .object({
     vertices: z.array(z.tuple([num, num, num])),
-    triangles: z.array(z.tuple([z.number().int().nonnegative(), z.number().int().nonnegative(), z.number().int().nonnegative()])),
+    triangles: z.array(
+      z.tuple([z.number().int().nonnegative(), z.number().int().nonnegative(), z.number().int().nonnegative()]),
+    ),
   })
-  .transform((s): SurfaceMesh => ({ vertices: Float32Array.from(s.vertices.flat()), triangles: Uint32Array.from(s.triangles.flat()) }))
+  .transform((s): SurfaceMesh => ({
+    vertices: Float32Array.from(s.vertices.flat()),
+    triangles: Uint32Array.from(s.triangles.flat()),
+  }))
   .superRefine(checkMesh)
 
 export const surfaceEventSchema = z

@@ -41,11 +41,16 @@ export function contourSegments(vertices: ArrayLike<number>, triangles: ArrayLik
   for (let t = 0; t + 2 < triangles.length; t += 3) {
     ends.length = 0
     for (let k = 0; k < 3; k++) {
-      const p = 3 * triangles[t + k]!, q = 3 * triangles[t + ((k + 1) % 3)]!
-      const zp = vertices[p + 2]!, zq = vertices[q + 2]!
+      const p = 3 * triangles[t + k]!,
+        q = 3 * triangles[t + ((k + 1) % 3)]!
+      const zp = vertices[p + 2]!,
+        zq = vertices[q + 2]!
       if (zp >= level === zq >= level) continue
       const s = (level - zp) / (zq - zp)
-      ends.push(vertices[p]! + s * (vertices[q]! - vertices[p]!), vertices[p + 1]! + s * (vertices[q + 1]! - vertices[p + 1]!))
+      ends.push(
+        vertices[p]! + s * (vertices[q]! - vertices[p]!),
+        vertices[p + 1]! + s * (vertices[q + 1]! - vertices[p + 1]!),
+      )
     }
     if (ends.length === 4) out.push(ends[0]!, ends[1]!, ends[2]!, ends[3]!)
   }

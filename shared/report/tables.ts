@@ -37,7 +37,8 @@ export interface ReportInput {
 const FORMER = 'a former member'
 const fixed = (v: number, digits: number): string => (Number.isFinite(v) ? v.toFixed(digits) : '—')
 /** "2026-12-02 16:40 UTC": the same text on the server (CSV) and in any browser time zone. */
-export const utcMinute = (iso: string): string => (Number.isNaN(Date.parse(iso)) ? '—' : `${new Date(iso).toISOString().slice(0, 16).replace('T', ' ')} UTC`)
+export const utcMinute = (iso: string): string =>
+  Number.isNaN(Date.parse(iso)) ? '—' : `${new Date(iso).toISOString().slice(0, 16).replace('T', ' ')} UTC`
 
 function inputsTable({ frame, solver, figures }: ReportInput, loops: string[]): ReportTable {
   const rows: [string, string, string][] = [
@@ -66,7 +67,12 @@ function inputsTable({ frame, solver, figures }: ReportInput, loops: string[]): 
     )
   }
   rows.push(['Flat threshold', fixed(figures.flatThreshold, 1), '°'])
-  return { key: 'inputs', title: 'Inputs and solver', columns: [{ label: 'Input' }, { label: 'Value' }, { label: 'Unit' }], rows }
+  return {
+    key: 'inputs',
+    title: 'Inputs and solver',
+    columns: [{ label: 'Input' }, { label: 'Value' }, { label: 'Unit' }],
+    rows,
+  }
 }
 
 function pointsTable({ frame }: ReportInput, loops: string[]): ReportTable {
@@ -79,8 +85,16 @@ function pointsTable({ frame }: ReportInput, loops: string[]): ReportTable {
   )
   const m = { unit: 'm', digits: 3 }
   return {
-    key: 'frame-points', title: 'Frame points', note: 'Edge Ei starts at point Pi and ends at the next point of its loop.',
-    columns: [{ label: 'Point' }, { label: 'x', ...m }, { label: 'y', ...m }, { label: 'z', ...m }, { label: 'Edge from here' }],
+    key: 'frame-points',
+    title: 'Frame points',
+    note: 'Edge Ei starts at point Pi and ends at the next point of its loop.',
+    columns: [
+      { label: 'Point' },
+      { label: 'x', ...m },
+      { label: 'y', ...m },
+      { label: 'z', ...m },
+      { label: 'Edge from here' },
+    ],
     rows,
   }
 }
@@ -89,20 +103,33 @@ function edgesTable({ frame, figures }: ReportInput, loops: string[]): ReportTab
   const rows = frame.loops.flatMap((loop, l) =>
     loop.edges.map((e, i) => {
       const n = loop.points.length
-      const a = loop.points[i]!, b = loop.points[(i + 1) % n]!
+      const a = loop.points[i]!,
+        b = loop.points[(i + 1) % n]!
       const chord = Math.hypot(b.x - a.x, b.y - a.y, b.z - a.z)
       const cable = e.kind === 'cable' ? figures.cables.find((c) => c.loop === l && c.edge === i) : undefined
       return [
-        edgeName(loops[l]!, i), `P${i + 1}–P${((i + 1) % n) + 1}`, e.kind,
-        e.kind === 'cable' ? (e.tension ?? null) : null, chord, cable?.length ?? null, cable?.sag ?? null,
+        edgeName(loops[l]!, i),
+        `P${i + 1}–P${((i + 1) % n) + 1}`,
+        e.kind,
+        e.kind === 'cable' ? (e.tension ?? null) : null,
+        chord,
+        cable?.length ?? null,
+        cable?.sag ?? null,
       ]
     }),
   )
   return {
-    key: 'frame-edges', title: 'Frame edges', note: 'Cable length along the solved edge and largest sag from the chord, prestress state.',
+    key: 'frame-edges',
+    title: 'Frame edges',
+    note: 'Cable length along the solved edge and largest sag from the chord, prestress state.',
     columns: [
-      { label: 'Edge' }, { label: 'Joins' }, { label: 'Kind' }, { label: 'Tension', unit: 'kN', digits: 1 },
-      { label: 'Chord', unit: 'm', digits: 3 }, { label: 'Cable length', unit: 'm', digits: 3 }, { label: 'Sag', unit: 'm', digits: 3 },
+      { label: 'Edge' },
+      { label: 'Joins' },
+      { label: 'Kind' },
+      { label: 'Tension', unit: 'kN', digits: 1 },
+      { label: 'Chord', unit: 'm', digits: 3 },
+      { label: 'Cable length', unit: 'm', digits: 3 },
+      { label: 'Sag', unit: 'm', digits: 3 },
     ],
     rows,
   }
@@ -111,15 +138,27 @@ function edgesTable({ frame, figures }: ReportInput, loops: string[]): ReportTab
 function forcesTable({ figures }: ReportInput, loops: string[]): ReportTable {
   const rows = figures.reactions.map(([l, p, fx, fy, fz]) => {
     const h = Math.hypot(fx, fy)
-    return [pointName(loops[l] ?? `Loop ${l + 1}`, p), fx, fy, fz, Math.hypot(h, fz), (Math.atan2(fz, h) * 180) / Math.PI]
+    return [
+      pointName(loops[l] ?? `Loop ${l + 1}`, p),
+      fx,
+      fy,
+      fz,
+      Math.hypot(h, fz),
+      (Math.atan2(fz, h) * 180) / Math.PI,
+    ]
   })
   const kN = { unit: 'kN', digits: 2 }
   return {
-    key: 'forces', title: 'Forces at frame points (prestress state)',
+    key: 'forces',
+    title: 'Forces at frame points (prestress state)',
     note: 'The pull of membrane and cables on each frame point under prestress alone, before wind, snow or any other load; the support reaction is equal and opposite. Angle from horizontal: positive when the pull points up.',
     columns: [
-      { label: 'Point' }, { label: 'Fx', ...kN }, { label: 'Fy', ...kN }, { label: 'Fz', ...kN },
-      { label: 'Resultant', ...kN }, { label: 'Angle from horizontal', unit: '°', digits: 1 },
+      { label: 'Point' },
+      { label: 'Fx', ...kN },
+      { label: 'Fy', ...kN },
+      { label: 'Fz', ...kN },
+      { label: 'Resultant', ...kN },
+      { label: 'Angle from horizontal', unit: '°', digits: 1 },
     ],
     rows,
   }
@@ -139,14 +178,27 @@ function figuresTable({ figures: f }: ReportInput): ReportTable {
     ['Ponding pockets', String(f.pondingPockets.length), ''],
     ['Smallest mesh angle', fixed(f.minAngle, 1), '°'],
   ]
-  return { key: 'figures', title: 'Figures (prestress state)', columns: [{ label: 'Figure' }, { label: 'Value' }, { label: 'Unit' }], rows }
+  return {
+    key: 'figures',
+    title: 'Figures (prestress state)',
+    columns: [{ label: 'Figure' }, { label: 'Value' }, { label: 'Unit' }],
+    rows,
+  }
 }
 
 function pocketsTable({ figures }: ReportInput): ReportTable {
   const m = { unit: 'm', digits: 3 }
   return {
-    key: 'ponding-pockets', title: 'Ponding pockets', note: 'Interior low points that would hold water in the prestress state.',
-    columns: [{ label: 'Pocket' }, { label: 'x', ...m }, { label: 'y', ...m }, { label: 'z', ...m }, { label: 'Ponded plan area', unit: 'm²', digits: 2 }],
+    key: 'ponding-pockets',
+    title: 'Ponding pockets',
+    note: 'Interior low points that would hold water in the prestress state.',
+    columns: [
+      { label: 'Pocket' },
+      { label: 'x', ...m },
+      { label: 'y', ...m },
+      { label: 'z', ...m },
+      { label: 'Ponded plan area', unit: 'm²', digits: 2 },
+    ],
     rows: figures.pondingPockets.map((p, i) => [`${i + 1}`, p.x, p.y, p.z, p.area]),
   }
 }
@@ -154,10 +206,27 @@ function pocketsTable({ figures }: ReportInput): ReportTable {
 function pinsTable({ pins }: ReportInput): ReportTable {
   const m = { unit: 'm', digits: 2 }
   return {
-    key: 'pins', title: 'Open pins', note: 'Numbered as marked on the plan, oldest first.',
-    columns: [{ label: 'Pin' }, { label: 'x', ...m }, { label: 'y', ...m }, { label: 'z', ...m }, { label: 'Author', text: true }, { label: 'Date' }, { label: 'Comment', text: true }, { label: 'Replies', text: true }],
+    key: 'pins',
+    title: 'Open pins',
+    note: 'Numbered as marked on the plan, oldest first.',
+    columns: [
+      { label: 'Pin' },
+      { label: 'x', ...m },
+      { label: 'y', ...m },
+      { label: 'z', ...m },
+      { label: 'Author', text: true },
+      { label: 'Date' },
+      { label: 'Comment', text: true },
+      { label: 'Replies', text: true },
+    ],
     rows: pins.map((p, i) => [
-      `${i + 1}`, p.x, p.y, p.z, p.author?.name ?? FORMER, utcMinute(p.createdAt), p.body,
+      `${i + 1}`,
+      p.x,
+      p.y,
+      p.z,
+      p.author?.name ?? FORMER,
+      utcMinute(p.createdAt),
+      p.body,
       p.replies.map((r) => `${r.author?.name ?? FORMER} (${utcMinute(r.createdAt)}): ${r.body}`).join('\n') || null,
     ]),
   }
@@ -166,7 +235,13 @@ function pinsTable({ pins }: ReportInput): ReportTable {
 /** Every table of the report, in page order; ponding pockets only when there are any. */
 export function reportTables(input: ReportInput): ReportTable[] {
   const loops = loopNames(input.frame.loops)
-  const tables = [inputsTable(input, loops), pointsTable(input, loops), edgesTable(input, loops), forcesTable(input, loops), figuresTable(input)]
+  const tables = [
+    inputsTable(input, loops),
+    pointsTable(input, loops),
+    edgesTable(input, loops),
+    forcesTable(input, loops),
+    figuresTable(input),
+  ]
   if (input.figures.pondingPockets.length) tables.push(pocketsTable(input))
   tables.push(pinsTable(input))
   return tables

@@ -30,7 +30,13 @@ export function findPoint(doc: Y.Doc, loopId: string, pointId: string): { point:
 }
 
 /** Moves a frame point (any of x, y, z in metres). Returns false when the point no longer exists. */
-export function movePoint(doc: Y.Doc, loopId: string, pointId: string, to: { x?: number; y?: number; z?: number }, origin?: unknown): boolean {
+export function movePoint(
+  doc: Y.Doc,
+  loopId: string,
+  pointId: string,
+  to: { x?: number; y?: number; z?: number },
+  origin?: unknown,
+): boolean {
   const found = findPoint(doc, loopId, pointId)
   if (!found) return false
   doc.transact(() => {
@@ -43,7 +49,13 @@ export function movePoint(doc: Y.Doc, loopId: string, pointId: string, to: { x?:
 }
 
 /** Inserts a point after `afterPointId` (on the edge that starts there); the new point inherits that edge. */
-export function insertPointAfter(doc: Y.Doc, loopId: string, afterPointId: string, at: { x: number; y: number; z: number }, origin?: unknown): string | undefined {
+export function insertPointAfter(
+  doc: Y.Doc,
+  loopId: string,
+  afterPointId: string,
+  at: { x: number; y: number; z: number },
+  origin?: unknown,
+): string | undefined {
   const found = findPoint(doc, loopId, afterPointId)
   const points = findLoop(doc, loopId)
   const arr = points && pointsOf(points)
@@ -66,7 +78,14 @@ export function deletePoint(doc: Y.Doc, loopId: string, pointId: string, origin?
 }
 
 /** Sets the kind of the edge that starts at a point, and its tension in kN for a cable. */
-export function setEdge(doc: Y.Doc, loopId: string, pointId: string, kind: EdgeKind, tension?: number, origin?: unknown): boolean {
+export function setEdge(
+  doc: Y.Doc,
+  loopId: string,
+  pointId: string,
+  kind: EdgeKind,
+  tension?: number,
+  origin?: unknown,
+): boolean {
   const found = findPoint(doc, loopId, pointId)
   if (!found) return false
   doc.transact(() => {
@@ -78,7 +97,11 @@ export function setEdge(doc: Y.Doc, loopId: string, pointId: string, kind: EdgeK
 }
 
 /** Adds a hole loop (mast ring, oculus) and returns its id; undefined when the frame has no loops list. */
-export function addHole(doc: Y.Doc, points: { x: number; y: number; z: number }[], origin?: unknown): string | undefined {
+export function addHole(
+  doc: Y.Doc,
+  points: { x: number; y: number; z: number }[],
+  origin?: unknown,
+): string | undefined {
   const loops = loopsArray(doc)
   if (!loops) return undefined
   const loop = makeLoop('hole', points)
@@ -89,7 +112,9 @@ export function addHole(doc: Y.Doc, points: { x: number; y: number; z: number }[
 /** Removes a hole loop; the outer loop cannot be removed. */
 export function removeHole(doc: Y.Doc, loopId: string, origin?: unknown): boolean {
   const loops = loopsArray(doc)
-  const index = loops ? loops.toArray().findIndex((l) => l instanceof Y.Map && l.get('id') === loopId && l.get('role') === 'hole') : -1
+  const index = loops
+    ? loops.toArray().findIndex((l) => l instanceof Y.Map && l.get('id') === loopId && l.get('role') === 'hole')
+    : -1
   if (!loops || index < 0) return false
   doc.transact(() => loops.delete(index, 1), origin)
   return true

@@ -37,9 +37,7 @@ export interface ShapeProblem {
 
 /** The outcome of reading the frame: empty (no loops yet), a valid frame, or why it is not one. */
 export type FrameRead =
-  | { kind: 'empty' }
-  | { kind: 'frame'; frame: Frame }
-  | { kind: 'invalid'; path: string; message: string; code: string }
+  { kind: 'empty' } | { kind: 'frame'; frame: Frame } | { kind: 'invalid'; path: string; message: string; code: string }
 
 /** Names a value's type in plain words, for messages. */
 export function describeValue(v: unknown): string {
@@ -59,7 +57,8 @@ const WANTED: Record<Shape['kind'], string> = { map: 'a map', array: 'a list', v
 function check(value: unknown, shape: Shape, path: string): ShapeProblem | null {
   if (shape.kind === 'value') return null
   if (shape.kind === 'array') {
-    if (!(value instanceof Y.Array)) return { path, message: `${path}: expected ${WANTED.array}, found ${describeValue(value)}` }
+    if (!(value instanceof Y.Array))
+      return { path, message: `${path}: expected ${WANTED.array}, found ${describeValue(value)}` }
     const items = value.toArray() as unknown[]
     for (let i = 0; i < items.length; i++) {
       const problem = check(items[i], shape.of, `${path}[${i}]`)
@@ -67,7 +66,8 @@ function check(value: unknown, shape: Shape, path: string): ShapeProblem | null 
     }
     return null
   }
-  if (!(value instanceof Y.Map)) return { path, message: `${path}: expected ${WANTED.map}, found ${describeValue(value)}` }
+  if (!(value instanceof Y.Map))
+    return { path, message: `${path}: expected ${WANTED.map}, found ${describeValue(value)}` }
   return checkKeys(value, shape.keys ?? {}, path)
 }
 
@@ -87,7 +87,10 @@ export function shapeProblem(doc: Y.Doc): ShapeProblem | null {
     return checkKeys(doc.getMap(FRAME_KEY), FRAME_SHAPE, '')
   } catch (err) {
     // getMap throws when the root name was taken by another type; any other surprise lands here too.
-    return { path: FRAME_KEY, message: `${FRAME_KEY}: cannot be read (${err instanceof Error ? err.message : String(err)})` }
+    return {
+      path: FRAME_KEY,
+      message: `${FRAME_KEY}: cannot be read (${err instanceof Error ? err.message : String(err)})`,
+    }
   }
 }
 
@@ -110,13 +113,22 @@ function plainFrame(doc: Y.Doc): unknown {
     version: 1,
     units: 'm',
     // rooms made before the warp direction existed have none: the parser's default (0) applies
-    prestress: { warp: scalar(prestress?.get('warp')), fill: scalar(prestress?.get('fill')), warpAngle: scalar(prestress?.get('warpAngle')) },
+    prestress: {
+      warp: scalar(prestress?.get('warp')),
+      fill: scalar(prestress?.get('fill')),
+      warpAngle: scalar(prestress?.get('warpAngle')),
+    },
     mesh: { edgeLength: scalar(mesh?.get('edgeLength')) },
     loops: loops.toArray().map((loop) => {
       const points = ((loop.get('points') as Y.Array<Y.Map<unknown>> | undefined)?.toArray() ?? []) as Y.Map<unknown>[]
       return {
         role: scalar(loop.get('role')),
-        points: points.map((p) => ({ id: scalar(p.get('id')), x: scalar(p.get('x')), y: scalar(p.get('y')), z: scalar(p.get('z')) })),
+        points: points.map((p) => ({
+          id: scalar(p.get('id')),
+          x: scalar(p.get('x')),
+          y: scalar(p.get('y')),
+          z: scalar(p.get('z')),
+        })),
         edges: points.map((p) => {
           const kind = scalar(p.get('edge'))
           return kind === 'cable' ? { kind, tension: scalar(p.get('tension')) } : { kind }
@@ -147,14 +159,22 @@ export function readRoomFrame(doc: Y.Doc): FrameRead {
     if (raw === null) return { kind: 'empty' }
     return { kind: 'frame', frame: parseFrameJson(raw) }
   } catch (err) {
-    if (err instanceof FrameError) return { kind: 'invalid', code: err.code, path: err.field ?? '', message: err.message }
-    return { kind: 'invalid', code: 'invalid-field', path: FRAME_KEY, message: err instanceof Error ? err.message : String(err) }
+    if (err instanceof FrameError)
+      return { kind: 'invalid', code: err.code, path: err.field ?? '', message: err.message }
+    return {
+      kind: 'invalid',
+      code: 'invalid-field',
+      path: FRAME_KEY,
+      message: err instanceof Error ? err.message : String(err),
+    }
   }
 }
 
 /** The Y.Map items of a Y.Array that should hold only maps (others are skipped: see shapeProblem). */
 export function mapsIn(value: unknown): Y.Map<unknown>[] {
-  return value instanceof Y.Array ? (value.toArray() as unknown[]).filter((v): v is Y.Map<unknown> => v instanceof Y.Map) : []
+  return value instanceof Y.Array
+    ? (value.toArray() as unknown[]).filter((v): v is Y.Map<unknown> => v instanceof Y.Map)
+    : []
 }
 
 /** The loops Y.Array of the frame, or undefined when it is missing or not a Y.Array. */

@@ -45,7 +45,14 @@ export function loopsOf(doc: Y.Doc): Y.Array<YLoop> {
 }
 
 /** Builds the Y.Map of one frame point. */
-export function makePoint(p: { id?: string; x: number; y: number; z: number; edge?: EdgeKind; tension?: number }): YPoint {
+export function makePoint(p: {
+  id?: string
+  x: number
+  y: number
+  z: number
+  edge?: EdgeKind
+  tension?: number
+}): YPoint {
   const m = new Y.Map<string | number>()
   m.set('id', p.id ?? newId('p'))
   m.set('x', p.x)

@@ -14,13 +14,25 @@ export const STARTERS: { key: StarterKey; label: string; description: string }[]
   { key: 'blank', label: 'Blank', description: 'A flat 6 m square to start from' },
 ]
 
-function loop(role: FrameLoop['role'], prefix: string, xyz: [number, number, number][], edges: (i: number) => FrameEdge): FrameLoop {
+function loop(
+  role: FrameLoop['role'],
+  prefix: string,
+  xyz: [number, number, number][],
+  edges: (i: number) => FrameEdge,
+): FrameLoop {
   const points: FramePoint[] = xyz.map(([x, y, z], i) => ({ id: `${prefix}${i + 1}`, x, y, z }))
   return { role, points, edges: points.map((_, i) => edges(i)) }
 }
 
 function frame(loops: FrameLoop[], prestress: number, edgeLength: number): Frame {
-  return { format: 'veilroom-frame', version: 1, units: 'm', prestress: { warp: prestress, fill: prestress, warpAngle: 0 }, mesh: { edgeLength }, loops }
+  return {
+    format: 'veilroom-frame',
+    version: 1,
+    units: 'm',
+    prestress: { warp: prestress, fill: prestress, warpAngle: 0 },
+    mesh: { edgeLength },
+    loops,
+  }
 }
 
 const round = (v: number): number => Math.round(v * 1000) / 1000
@@ -29,7 +41,23 @@ const round = (v: number): number => Math.round(v * 1000) / 1000
 export function starterFrame(key: StarterKey): Frame {
   switch (key) {
     case 'sail':
-      return frame([loop('outer', 's', [[0, 0, 0.5], [8, 0, 3.2], [8, 8, 0.5], [0, 8, 3.2]], () => ({ kind: 'cable', tension: 24 }))], 2, 0.3)
+      return frame(
+        [
+          loop(
+            'outer',
+            's',
+            [
+              [0, 0, 0.5],
+              [8, 0, 3.2],
+              [8, 8, 0.5],
+              [0, 8, 3.2],
+            ],
+            () => ({ kind: 'cable', tension: 24 }),
+          ),
+        ],
+        2,
+        0.3,
+      )
     case 'tent': {
       const ring: [number, number, number][] = []
       for (let i = 0; i < 12; i++) {
@@ -38,7 +66,17 @@ export function starterFrame(key: StarterKey): Frame {
       }
       return frame(
         [
-          loop('outer', 't', [[0, 0, 0], [12, 0, 0], [12, 12, 0], [0, 12, 0]], () => ({ kind: 'rigid' })),
+          loop(
+            'outer',
+            't',
+            [
+              [0, 0, 0],
+              [12, 0, 0],
+              [12, 12, 0],
+              [0, 12, 0],
+            ],
+            () => ({ kind: 'rigid' }),
+          ),
           loop('hole', 'm', ring, () => ({ kind: 'rigid' })),
         ],
         3,
@@ -53,11 +91,47 @@ export function starterFrame(key: StarterKey): Frame {
       pts.push([10, 6, 0.4], [0, 6, 0.4])
       for (let k = 5; k > 0; k--) pts.push([0, k, rise(k)])
       // the long sides (edges 0 and 7) are cables; the arch segments are rigid
-      return frame([loop('outer', 'a', pts, (i) => (i === 0 || i === 7 ? { kind: 'cable', tension: 30 } : { kind: 'rigid' }))], 2.5, 0.3)
+      return frame(
+        [loop('outer', 'a', pts, (i) => (i === 0 || i === 7 ? { kind: 'cable', tension: 30 } : { kind: 'rigid' }))],
+        2.5,
+        0.3,
+      )
     }
     case 'cable-rectangle':
-      return frame([loop('outer', 'r', [[0, 0, 3], [12, 0, 3], [12, 8, 4.2], [0, 8, 4.2]], () => ({ kind: 'cable', tension: 30 }))], 2, 0.35)
+      return frame(
+        [
+          loop(
+            'outer',
+            'r',
+            [
+              [0, 0, 3],
+              [12, 0, 3],
+              [12, 8, 4.2],
+              [0, 8, 4.2],
+            ],
+            () => ({ kind: 'cable', tension: 30 }),
+          ),
+        ],
+        2,
+        0.35,
+      )
     case 'blank':
-      return frame([loop('outer', 'b', [[0, 0, 0], [6, 0, 0], [6, 6, 0], [0, 6, 0]], () => ({ kind: 'rigid' }))], 2, 0.3)
+      return frame(
+        [
+          loop(
+            'outer',
+            'b',
+            [
+              [0, 0, 0],
+              [6, 0, 0],
+              [6, 6, 0],
+              [0, 6, 0],
+            ],
+            () => ({ kind: 'rigid' }),
+          ),
+        ],
+        2,
+        0.3,
+      )
   }
 }

@@ -19,16 +19,35 @@ export const roomActivitySchema = z.object({
 export type RoomActivity = z.infer<typeof roomActivitySchema>
 
 export const listActivity = async (): Promise<Record<string, RoomActivity>> =>
-  (await request('GET', '/api/activity/rooms', undefined, z.object({ rooms: z.record(z.string(), roomActivitySchema) }))).rooms
+  (
+    await request(
+      'GET',
+      '/api/activity/rooms',
+      undefined,
+      z.object({ rooms: z.record(z.string(), roomActivitySchema) }),
+    )
+  ).rooms
 
 export const roomActivity = async (roomId: string): Promise<RoomActivity> =>
-  (await request('GET', `/api/activity/rooms/${encodeURIComponent(roomId)}`, undefined, z.object({ activity: roomActivitySchema }))).activity
+  (
+    await request(
+      'GET',
+      `/api/activity/rooms/${encodeURIComponent(roomId)}`,
+      undefined,
+      z.object({ activity: roomActivitySchema }),
+    )
+  ).activity
 
 /** Calls `changed(roomId)` whenever a room I belong to changes; returns the stop function. */
 export function watchRooms(changed: (roomId: string) => void): () => void {
   const socket: StreamSocket = io({ withCredentials: true })
   socket.on('connect', () => socket.emit('rooms:watch'))
-  const off = onServerEvent(socket, 'rooms:changed', (e) => changed(e.roomId), () => undefined)
+  const off = onServerEvent(
+    socket,
+    'rooms:changed',
+    (e) => changed(e.roomId),
+    () => undefined,
+  )
   return () => {
     off()
     socket.disconnect()

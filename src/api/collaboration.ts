@@ -60,7 +60,10 @@ export const CAPTURE_TIMEOUT_MS = 400
  * reverts a peer's edit. Edits in shared/room-doc/edits.ts take the origin as their last argument.
  */
 export function createUndoManager(doc: Y.Doc, origin: object): Y.UndoManager {
-  return new Y.UndoManager([frameMap(doc), patternMap(doc)], { trackedOrigins: new Set([origin]), captureTimeout: CAPTURE_TIMEOUT_MS })
+  return new Y.UndoManager([frameMap(doc), patternMap(doc)], {
+    trackedOrigins: new Set([origin]),
+    captureTimeout: CAPTURE_TIMEOUT_MS,
+  })
 }
 
 export interface Collaboration {

@@ -1,13 +1,6 @@
 import type { z } from 'zod'
 import type { StarterKey } from '../../shared/room-doc/starters'
-import {
-  errorBody,
-  replies,
-  type Member,
-  type RoomDetail,
-  type RoomSummary,
-  type User,
-} from './schemas'
+import { errorBody, replies, type Member, type RoomDetail, type RoomSummary, type User } from './schemas'
 
 export type { Member, RoomDetail, RoomRole, RoomSummary, User } from './schemas'
 
@@ -69,7 +62,12 @@ async function call<T>(method: Method, path: string, body: unknown, reply: z.Zod
       body: body === undefined ? undefined : form ? body : JSON.stringify(body),
     })
   } catch {
-    throw new ApiError('network', 'The Veilroom server could not be reached. Check your connection and try again.', undefined, 0)
+    throw new ApiError(
+      'network',
+      'The Veilroom server could not be reached. Check your connection and try again.',
+      undefined,
+      0,
+    )
   }
   if (!res.ok) {
     const err = await readError(res)
@@ -92,7 +90,12 @@ async function readError(res: Response): Promise<ApiError> {
   }
   // a body cut off by a size limit may come back without our error shape
   if (res.status === 413) return new ApiError('too_large', 'The file is too large for the server.', undefined, 413)
-  return new ApiError(`http_${res.status}`, `The server answered ${res.status} ${res.statusText}`.trim(), undefined, res.status)
+  return new ApiError(
+    `http_${res.status}`,
+    `The server answered ${res.status} ${res.statusText}`.trim(),
+    undefined,
+    res.status,
+  )
 }
 
 /**
@@ -115,8 +118,7 @@ const room = (id: string): string => `/api/rooms/${encodeURIComponent(id)}`
 export const health = () => request('GET', '/api/health', undefined, replies.health)
 
 /** GET /api/auth/me: the signed-in user, or null. */
-export const me = async (): Promise<User | null> =>
-  (await request('GET', '/api/auth/me', undefined, replies.me)).user
+export const me = async (): Promise<User | null> => (await request('GET', '/api/auth/me', undefined, replies.me)).user
 
 /** POST /api/auth/signin. */
 export async function signIn(input: { email: string; password: string }): Promise<User> {
@@ -143,8 +145,11 @@ export const listRooms = async (): Promise<RoomSummary[]> =>
   (await request('GET', '/api/rooms', undefined, replies.rooms)).rooms
 
 /** POST /api/rooms: I become its owner. */
-export const createRoom = async (input: { name: string; description: string; starter?: StarterKey }): Promise<RoomDetail> =>
-  (await request('POST', '/api/rooms', input, replies.room)).room
+export const createRoom = async (input: {
+  name: string
+  description: string
+  starter?: StarterKey
+}): Promise<RoomDetail> => (await request('POST', '/api/rooms', input, replies.room)).room
 
 /** GET /api/rooms/:id. */
 export const getRoom = async (id: string): Promise<RoomDetail> =>

@@ -3,7 +3,13 @@
  * full figures and solver report (routes in server/modules/snapshots/snapshots-routes.ts).
  */
 import { z } from 'zod'
-import { figuresSchema, frameSchema, solverReportSchema, surfaceMeshJsonSchema, type SurfaceMesh } from '../../shared/protocol'
+import {
+  figuresSchema,
+  frameSchema,
+  solverReportSchema,
+  surfaceMeshJsonSchema,
+  type SurfaceMesh,
+} from '../../shared/protocol'
 import type { Figures, Frame, SolverReport } from '../../shared/types'
 import { request } from './http'
 import { roomPath } from './team'

@@ -17,7 +17,10 @@ export type User = z.infer<typeof user>
 export const roomSummary = z.object({
   id,
   name: z.string(),
-  description: z.string().nullable().transform((d) => d ?? ''),
+  description: z
+    .string()
+    .nullable()
+    .transform((d) => d ?? ''),
   role: roomRole,
   memberCount: z.number().int().nonnegative(),
   updatedAt: z.string(),

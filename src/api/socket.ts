@@ -48,7 +48,10 @@ export function onServerEvent<E extends ServerEvent>(
     use(msg)
   }
   // socket.io's map types the listener by the server's payload; ours takes raw input and parses it.
-  const untyped = socket as unknown as { on(e: string, l: (raw: unknown) => void): void; off(e: string, l: (raw: unknown) => void): void }
+  const untyped = socket as unknown as {
+    on(e: string, l: (raw: unknown) => void): void
+    off(e: string, l: (raw: unknown) => void): void
+  }
   untyped.on(event, listener)
   return () => void untyped.off(event, listener)
 }

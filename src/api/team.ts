@@ -22,13 +22,21 @@ const person = z.object({ id, name: z.string() }).nullable().catch(null)
 const num = z.number()
 
 export const pendingInvite = z.object({
-  id, email: z.string(), role: roomRole, expiresAt: z.string(),
-  createdAt: z.string().optional(), invitedBy: person.optional(),
+  id,
+  email: z.string(),
+  role: roomRole,
+  expiresAt: z.string(),
+  createdAt: z.string().optional(),
+  invitedBy: person.optional(),
 })
 export type PendingInvite = z.infer<typeof pendingInvite>
 
 export const invitePreview = z.object({
-  roomName: z.string(), role: roomRole, email: z.string(), invitedBy: z.string(), expiresAt: z.string(),
+  roomName: z.string(),
+  role: roomRole,
+  email: z.string(),
+  invitedBy: z.string(),
+  expiresAt: z.string(),
 })
 export type InvitePreview = z.infer<typeof invitePreview>
 
@@ -37,8 +45,15 @@ export const snapshotFigures = figuresSummarySchema
 export type SnapshotFigures = z.infer<typeof snapshotFigures>
 
 export const snapshotSummary = z.object({
-  id, name: z.string(), note: z.string().nullable().transform((n) => n ?? ''), author: person,
-  createdAt: z.string(), figures: snapshotFigures,
+  id,
+  name: z.string(),
+  note: z
+    .string()
+    .nullable()
+    .transform((n) => n ?? ''),
+  author: person,
+  createdAt: z.string(),
+  figures: snapshotFigures,
 })
 export type SnapshotSummary = z.infer<typeof snapshotSummary>
 
@@ -46,13 +61,25 @@ export const snapshotDetail = snapshotSummary.extend({ frame: frameSchema })
 export type SnapshotDetail = z.infer<typeof snapshotDetail>
 
 export const mailMessage = z.object({
-  id, to: z.string(), subject: z.string(), text: z.string(), html: z.string().nullish(), date: z.string(),
+  id,
+  to: z.string(),
+  subject: z.string(),
+  text: z.string(),
+  html: z.string().nullish(),
+  date: z.string(),
 })
 export type MailMessage = z.infer<typeof mailMessage>
 
 export const underlayMeta = z.object({
-  ax: num, ay: num, bx: num, by: num, distance: num, originX: num, originY: num,
-  width: num.optional(), height: num.optional(),
+  ax: num,
+  ay: num,
+  bx: num,
+  by: num,
+  distance: num,
+  originX: num,
+  originY: num,
+  width: num.optional(),
+  height: num.optional(),
 })
 export type UnderlayMeta = z.infer<typeof underlayMeta>
 
@@ -82,25 +109,33 @@ export const roomPath = (roomId: string): string => `/api/rooms/${enc(roomId)}`
 export const createInvite = async (roomId: string, input: { email: string; role: Member['role'] }) =>
   (await request('POST', `${roomPath(roomId)}/invites`, input, replies.invite)).invite
 /** GET /api/rooms/:id/invites (owner): not accepted, not revoked, not expired. */
-export const listInvites = async (roomId: string) => (await request('GET', `${roomPath(roomId)}/invites`, undefined, replies.invites)).invites
+export const listInvites = async (roomId: string) =>
+  (await request('GET', `${roomPath(roomId)}/invites`, undefined, replies.invites)).invites
 /** DELETE /api/rooms/:id/invites/:inviteId (owner). */
-export const revokeInvite = (roomId: string, inviteId: string) => request('DELETE', `${roomPath(roomId)}/invites/${enc(inviteId)}`, undefined, null)
+export const revokeInvite = (roomId: string, inviteId: string) =>
+  request('DELETE', `${roomPath(roomId)}/invites/${enc(inviteId)}`, undefined, null)
 /** GET /api/invites/:token: public preview; 404/410 with the reason when it cannot be used. */
-export const previewInvite = async (token: string) => (await request('GET', `/api/invites/${enc(token)}`, undefined, replies.preview)).invite
+export const previewInvite = async (token: string) =>
+  (await request('GET', `/api/invites/${enc(token)}`, undefined, replies.preview)).invite
 /** POST /api/invites/:token/accept (signed in). */
-export const acceptInvite = (token: string) => request('POST', `/api/invites/${enc(token)}/accept`, undefined, replies.accepted)
+export const acceptInvite = (token: string) =>
+  request('POST', `/api/invites/${enc(token)}/accept`, undefined, replies.accepted)
 /** PATCH /api/rooms/:id/members/:userId (owner); 409 'last_owner' keeps one owner. */
 export const changeMemberRole = async (roomId: string, userId: string, role: Member['role']) =>
   (await request('PATCH', `${roomPath(roomId)}/members/${enc(userId)}`, { role }, replies.member)).member
 /** DELETE /api/rooms/:id/members/:userId (owner, or the member leaving). */
-export const removeMember = (roomId: string, userId: string) => request('DELETE', `${roomPath(roomId)}/members/${enc(userId)}`, undefined, null)
+export const removeMember = (roomId: string, userId: string) =>
+  request('DELETE', `${roomPath(roomId)}/members/${enc(userId)}`, undefined, null)
 
 // ── pins ─────────────────────────────────────────────────────────────────────────────────────
 /** GET /api/rooms/:id/pins (all statuses; the panel filters locally so live events fit in). */
-export const listPins = async (roomId: string) => (await request('GET', `${roomPath(roomId)}/pins?status=all`, undefined, replies.pins)).pins
+export const listPins = async (roomId: string) =>
+  (await request('GET', `${roomPath(roomId)}/pins?status=all`, undefined, replies.pins)).pins
 /** POST /api/rooms/:id/pins (reviewer and up). */
-export const createPin = async (roomId: string, input: { x: number; y: number; z: number; docVersion: number; body: string }) =>
-  (await request('POST', `${roomPath(roomId)}/pins`, input, replies.pin)).pin
+export const createPin = async (
+  roomId: string,
+  input: { x: number; y: number; z: number; docVersion: number; body: string },
+) => (await request('POST', `${roomPath(roomId)}/pins`, input, replies.pin)).pin
 /** POST /api/rooms/:id/pins/:pinId/replies (reviewer and up). */
 export const replyToPin = async (roomId: string, pinId: string, body: string) =>
   (await request('POST', `${roomPath(roomId)}/pins/${enc(pinId)}/replies`, { body }, replies.pin)).pin
@@ -108,11 +143,13 @@ export const replyToPin = async (roomId: string, pinId: string, body: string) =>
 export const patchPin = async (roomId: string, pinId: string, patch: { body?: string; resolved?: boolean }) =>
   (await request('PATCH', `${roomPath(roomId)}/pins/${enc(pinId)}`, patch, replies.pin)).pin
 /** DELETE /api/rooms/:id/pins/:pinId (author). */
-export const deletePin = (roomId: string, pinId: string) => request('DELETE', `${roomPath(roomId)}/pins/${enc(pinId)}`, undefined, null)
+export const deletePin = (roomId: string, pinId: string) =>
+  request('DELETE', `${roomPath(roomId)}/pins/${enc(pinId)}`, undefined, null)
 
 // ── snapshots ────────────────────────────────────────────────────────────────────────────────
 /** GET /api/rooms/:id/snapshots. */
-export const listSnapshots = async (roomId: string) => (await request('GET', `${roomPath(roomId)}/snapshots`, undefined, replies.snapshots)).snapshots
+export const listSnapshots = async (roomId: string) =>
+  (await request('GET', `${roomPath(roomId)}/snapshots`, undefined, replies.snapshots)).snapshots
 /** POST /api/rooms/:id/snapshots (editor and up); 409 'no_surface' when nothing has settled yet. */
 export const saveSnapshot = async (roomId: string, input: { name: string; note: string }) =>
   (await request('POST', `${roomPath(roomId)}/snapshots`, input, replies.created)).snapshot
@@ -120,7 +157,8 @@ export const saveSnapshot = async (roomId: string, input: { name: string; note: 
 export const getSnapshot = async (roomId: string, sid: string) =>
   (await request('GET', `${roomPath(roomId)}/snapshots/${enc(sid)}`, undefined, replies.snapshot)).snapshot
 /** DELETE /api/rooms/:id/snapshots/:sid (editor and up). */
-export const deleteSnapshot = (roomId: string, sid: string) => request('DELETE', `${roomPath(roomId)}/snapshots/${enc(sid)}`, undefined, null)
+export const deleteSnapshot = (roomId: string, sid: string) =>
+  request('DELETE', `${roomPath(roomId)}/snapshots/${enc(sid)}`, undefined, null)
 /** GET /api/rooms/:id/snapshots/:sid/surface, as typed arrays. */
 export const getSnapshotSurface = (roomId: string, sid: string): Promise<SurfaceMesh> =>
   request('GET', `${roomPath(roomId)}/snapshots/${enc(sid)}/surface`, undefined, replies.surface)

@@ -32,7 +32,8 @@ export function nearestVertexDistances(from: ArrayLike<number>, to: ArrayLike<nu
   const [nx, ny, nz] = dims as [number, number, number]
   const key = (ix: number, iy: number, iz: number): number => (iz * ny + iy) * nx + ix
   const buckets = new Map<number, number[]>()
-  const cellOf = (v: number, k: number, dim: number): number => Math.min(dim - 1, Math.max(0, Math.floor((v - min[k]!) / cell)))
+  const cellOf = (v: number, k: number, dim: number): number =>
+    Math.min(dim - 1, Math.max(0, Math.floor((v - min[k]!) / cell)))
   for (let i = 0; i < n; i++) {
     const c = key(cellOf(from[3 * i]!, 0, nx), cellOf(from[3 * i + 1]!, 1, ny), cellOf(from[3 * i + 2]!, 2, nz))
     const list = buckets.get(c)

@@ -27,36 +27,49 @@ export function useSnapshotCompare(roomId: Ref<string>, aId: Ref<string | null>,
     return { detail, surface }
   }
 
-  watch([roomId, aId, bId], async ([, ida, idb]) => {
-    a.value = null
-    b.value = null
-    error.value = null
-    // Until two are picked the page shows its pickers; nothing to load and nothing wrong.
-    if (!ida || !idb) return
-    loading.value = true
-    try {
-      const [sa, sb] = await Promise.all([side(ida), side(idb)])
-      if (aId.value !== ida || bId.value !== idb) return
-      a.value = sa
-      b.value = sb
-    } catch (err) {
-      error.value = (err as Error).message
-    } finally {
-      loading.value = false
-    }
-  }, { immediate: true })
+  watch(
+    [roomId, aId, bId],
+    async ([, ida, idb]) => {
+      a.value = null
+      b.value = null
+      error.value = null
+      // Until two are picked the page shows its pickers; nothing to load and nothing wrong.
+      if (!ida || !idb) return
+      loading.value = true
+      try {
+        const [sa, sb] = await Promise.all([side(ida), side(idb)])
+        if (aId.value !== ida || bId.value !== idb) return
+        a.value = sa
+        b.value = sb
+      } catch (err) {
+        error.value = (err as Error).message
+      } finally {
+        loading.value = false
+      }
+    },
+    { immediate: true },
+  )
 
   /** Per vertex of B, metres to the nearest vertex of A. */
-  const distances = computed(() => (a.value && b.value ? nearestVertexDistances(a.value.surface.vertices, b.value.surface.vertices) : null))
+  const distances = computed(() =>
+    a.value && b.value ? nearestVertexDistances(a.value.surface.vertices, b.value.surface.vertices) : null,
+  )
   const max = computed(() => (distances.value ? legendMax(distances.value) : 0.001))
   const bColours = computed(() => (distances.value ? rampColours(distances.value, max.value, DISTANCE_RAMP) : null))
-  const rows = computed(() => (a.value && b.value ? figureDifferences(a.value.detail.figures, b.value.detail.figures) : []))
+  const rows = computed(() =>
+    a.value && b.value ? figureDifferences(a.value.detail.figures, b.value.detail.figures) : [],
+  )
 
   const viewA = computed<SceneSurface[]>(() => (a.value ? [{ ...a.value.surface, colour: '#d8bf94' }] : []))
-  const viewB = computed<SceneSurface[]>(() => (b.value && bColours.value ? [{ ...b.value.surface, colours: bColours.value }] : []))
+  const viewB = computed<SceneSurface[]>(() =>
+    b.value && bColours.value ? [{ ...b.value.surface, colours: bColours.value }] : [],
+  )
   const overlay = computed<SceneSurface[]>(() =>
     a.value && b.value && bColours.value
-      ? [{ ...b.value.surface, colours: bColours.value }, { ...a.value.surface, colour: '#24484d', opacity: 0.35, wireframe: true }]
+      ? [
+          { ...b.value.surface, colours: bColours.value },
+          { ...a.value.surface, colour: '#24484d', opacity: 0.35, wireframe: true },
+        ]
       : [],
   )
   return { a, b, error, loading, distances, max, rows, viewA, viewB, overlay }

@@ -18,7 +18,13 @@ export interface FigureRow {
   relative: number | null
 }
 
-function row(key: string, label: string, unit: string, a: number | null | undefined, b: number | null | undefined): FigureRow {
+function row(
+  key: string,
+  label: string,
+  unit: string,
+  a: number | null | undefined,
+  b: number | null | undefined,
+): FigureRow {
   const av = a ?? null
   const bv = b ?? null
   const diff = av !== null && bv !== null ? bv - av : null

@@ -20,7 +20,10 @@ export function filterPins(pins: readonly Pin[], filter: PinFilter, myUserId: st
 }
 
 /** Counts for the filter buttons. */
-export function pinCounts(pins: readonly Pin[], myUserId: string | undefined): { open: number; resolved: number; mine: number } {
+export function pinCounts(
+  pins: readonly Pin[],
+  myUserId: string | undefined,
+): { open: number; resolved: number; mine: number } {
   let open = 0
   let mine = 0
   for (const p of pins) {
@@ -49,7 +52,8 @@ export const canResolvePins = (role: RoomRole): boolean => role === 'owner' || r
 /** Reviewers and up add pins and replies; viewers read. */
 export const canAddPins = (role: RoomRole): boolean => role !== 'viewer'
 /** Only a pin's author may change its text or delete it. */
-export const isPinAuthor = (pin: Pin, myUserId: string | undefined): boolean => myUserId !== undefined && pin.author?.id === myUserId
+export const isPinAuthor = (pin: Pin, myUserId: string | undefined): boolean =>
+  myUserId !== undefined && pin.author?.id === myUserId
 
 /** Filter state and the filtered list for a panel. */
 export function usePinFilters(pins: Ref<readonly Pin[]>, myUserId: Ref<string | undefined>) {

@@ -9,15 +9,19 @@ import { usePinsStore, type PinEventSource } from '../stores/pins'
 
 export function usePinLive(roomId: Ref<string>, source: Ref<PinEventSource | null>) {
   const store = usePinsStore()
-  watch([roomId, source], ([id, src], _old, onCleanup) => {
-    const reload = (): void => void store.load(id).catch(() => undefined)
-    reload()
-    if (!src) return
-    const unlisten = store.listen(src)
-    src.on('connect', reload)
-    onCleanup(() => {
-      unlisten()
-      src.off('connect', reload)
-    })
-  }, { immediate: true })
+  watch(
+    [roomId, source],
+    ([id, src], _old, onCleanup) => {
+      const reload = (): void => void store.load(id).catch(() => undefined)
+      reload()
+      if (!src) return
+      const unlisten = store.listen(src)
+      src.on('connect', reload)
+      onCleanup(() => {
+        unlisten()
+        src.off('connect', reload)
+      })
+    },
+    { immediate: true },
+  )
 }

@@ -46,7 +46,11 @@ export function buildPinMarkers(pins: readonly Pin[], selectedId: string | null,
 }
 
 /** Draws the pins store's pins into `scene`; `camera` may be a getter (plan/3D switch). */
-export function usePinMarkers(scene: THREE.Scene, camera: THREE.Camera | (() => THREE.Camera), options: PinMarkerOptions = {}) {
+export function usePinMarkers(
+  scene: THREE.Scene,
+  camera: THREE.Camera | (() => THREE.Camera),
+  options: PinMarkerOptions = {},
+) {
   const store = usePinsStore()
   const size = options.size ?? 0.35
   let group: THREE.Group | null = null
@@ -99,7 +103,11 @@ export function usePinMarkers(scene: THREE.Scene, camera: THREE.Camera | (() => 
  */
 export function usePinMarkersIn(viewport: Ref<Viewport | null>, options: Omit<PinMarkerOptions, 'requestRender'> = {}) {
   const store = usePinsStore()
-  let current: { scope: ReturnType<typeof effectScope>; markers: ReturnType<typeof usePinMarkers>; off: () => void } | null = null
+  let current: {
+    scope: ReturnType<typeof effectScope>
+    markers: ReturnType<typeof usePinMarkers>
+    off: () => void
+  } | null = null
 
   function detach(): void {
     current?.off()
@@ -107,31 +115,38 @@ export function usePinMarkersIn(viewport: Ref<Viewport | null>, options: Omit<Pi
     current = null
   }
 
-  const stop = watch(viewport, (vp) => {
-    detach()
-    if (!vp) return
-    const scope = effectScope()
-    const markers = scope.run(() => usePinMarkers(vp.scene, () => vp.camera(), { ...options, requestRender: vp.requestRender }))!
-    let down: { x: number; y: number } | null = null
-    const onDown = (e: PointerEvent): void => void (down = { x: e.clientX, y: e.clientY })
-    const onUp = (e: PointerEvent): void => {
-      // Orbiting the camera ends with a pointerup too: only a still click selects.
-      if (!down || Math.hypot(e.clientX - down.x, e.clientY - down.y) > 4) return
-      const id = markers.pickEvent(e, vp.canvas)
-      if (id) store.selectedId = id
-    }
-    vp.canvas.addEventListener('pointerdown', onDown)
-    vp.canvas.addEventListener('pointerup', onUp)
-    const off = (): void => {
-      vp.canvas.removeEventListener('pointerdown', onDown)
-      vp.canvas.removeEventListener('pointerup', onUp)
-    }
-    current = { scope, markers, off }
-  }, { immediate: true })
+  const stop = watch(
+    viewport,
+    (vp) => {
+      detach()
+      if (!vp) return
+      const scope = effectScope()
+      const markers = scope.run(() =>
+        usePinMarkers(vp.scene, () => vp.camera(), { ...options, requestRender: vp.requestRender }),
+      )!
+      let down: { x: number; y: number } | null = null
+      const onDown = (e: PointerEvent): void => void (down = { x: e.clientX, y: e.clientY })
+      const onUp = (e: PointerEvent): void => {
+        // Orbiting the camera ends with a pointerup too: only a still click selects.
+        if (!down || Math.hypot(e.clientX - down.x, e.clientY - down.y) > 4) return
+        const id = markers.pickEvent(e, vp.canvas)
+        if (id) store.selectedId = id
+      }
+      vp.canvas.addEventListener('pointerdown', onDown)
+      vp.canvas.addEventListener('pointerup', onUp)
+      const off = (): void => {
+        vp.canvas.removeEventListener('pointerdown', onDown)
+        vp.canvas.removeEventListener('pointerup', onUp)
+      }
+      current = { scope, markers, off }
+    },
+    { immediate: true },
+  )
 
   if (getCurrentScope()) onScopeDispose(() => (stop(), detach()))
   return {
     /** The pin id under a pointer event on the viewport's canvas, or null. */
-    markerAt: (ev: { clientX: number; clientY: number }): string | null => (current && viewport.value ? current.markers.pickEvent(ev, viewport.value.canvas) : null),
+    markerAt: (ev: { clientX: number; clientY: number }): string | null =>
+      current && viewport.value ? current.markers.pickEvent(ev, viewport.value.canvas) : null,
   }
 }

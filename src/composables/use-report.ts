@@ -40,8 +40,16 @@ export function useReport(roomId: Ref<string>, source: Ref<ReportSource | null>)
       const { frame, ...surface } = await getCurrentResult(roomId.value)
       return { frame, surface, saved: null }
     }
-    const [detail, surface] = await Promise.all([getSnapshot(roomId.value, src.id), getSnapshotResult(roomId.value, src.id)])
-    const saved = { name: detail.name, note: detail.note, author: detail.author?.name ?? 'a former member', createdAt: detail.createdAt }
+    const [detail, surface] = await Promise.all([
+      getSnapshot(roomId.value, src.id),
+      getSnapshotResult(roomId.value, src.id),
+    ])
+    const saved = {
+      name: detail.name,
+      note: detail.note,
+      author: detail.author?.name ?? 'a former member',
+      createdAt: detail.createdAt,
+    }
     return { frame: detail.frame, surface, saved }
   }
 
@@ -70,7 +78,14 @@ export function useReport(roomId: Ref<string>, source: Ref<ReportSource | null>)
   }
 
   const tables = computed(() =>
-    state.value ? reportTables({ frame: state.value.frame, figures: state.value.surface.figures, solver: state.value.surface.solver, pins: pins.value }) : [],
+    state.value
+      ? reportTables({
+          frame: state.value.frame,
+          figures: state.value.surface.figures,
+          solver: state.value.surface.solver,
+          pins: pins.value,
+        })
+      : [],
   )
 
   watch([roomId, source], load, { immediate: true })

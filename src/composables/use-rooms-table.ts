@@ -14,14 +14,18 @@ export interface RoomRowActions {
 /** Unsettled rooms first when sorted ascending: they wait for someone. */
 const stateRank = (a: RoomActivity | undefined): number => (a?.solve?.state === 'unsettled' ? 0 : a?.solve ? 1 : 2)
 
-const lastAt = (a: RoomActivity | undefined, room: RoomSummary): number => Date.parse(a?.lastChange?.at ?? room.updatedAt)
+const lastAt = (a: RoomActivity | undefined, room: RoomSummary): number =>
+  Date.parse(a?.lastChange?.at ?? room.updatedAt)
 
 /**
  * Columns of the rooms table: the surface (picture and settle state), the room with my role, the
  * last change and who made it, open pins (mine), people here now, and the actions my role allows.
  * `activity` is read inside the renderers, so the rows follow live updates.
  */
-export function useRoomsTable(actions: RoomRowActions, activity: () => Record<string, RoomActivity>): DataTableColumns<RoomSummary> {
+export function useRoomsTable(
+  actions: RoomRowActions,
+  activity: () => Record<string, RoomActivity>,
+): DataTableColumns<RoomSummary> {
   const of = (room: RoomSummary): RoomActivity | undefined => activity()[room.id]
   return [
     {
@@ -32,11 +36,32 @@ export function useRoomsTable(actions: RoomRowActions, activity: () => Record<st
       render: (room) => {
         const act = of(room)
         return h('div', { class: 'surface-cell' }, [
-          act?.thumbnail ? h('img', { src: act.thumbnail, alt: `Settled surface of ${room.name}, seen from above`, class: 'thumb', width: 80, height: 60 }) : h('div', { class: 'thumb thumb-empty' }, 'no surface yet'),
+          act?.thumbnail
+            ? h('img', {
+                src: act.thumbnail,
+                alt: `Settled surface of ${room.name}, seen from above`,
+                class: 'thumb',
+                width: 80,
+                height: 60,
+              })
+            : h('div', { class: 'thumb thumb-empty' }, 'no surface yet'),
           act?.solve
             ? h(NTooltip, null, {
-                trigger: () => h(NTag, { size: 'small', bordered: false, type: act.solve!.state === 'settled' ? 'success' : 'warning', 'data-testid': 'room-state' }, () => (act.solve!.state === 'settled' ? 'Settled' : 'Unsettled')),
-                default: () => (act.solve!.state === 'settled' ? 'The last solve settled.' : `Unsettled: ${reasonWords(act.solve!.reason ?? undefined)}.`),
+                trigger: () =>
+                  h(
+                    NTag,
+                    {
+                      size: 'small',
+                      bordered: false,
+                      type: act.solve!.state === 'settled' ? 'success' : 'warning',
+                      'data-testid': 'room-state',
+                    },
+                    () => (act.solve!.state === 'settled' ? 'Settled' : 'Unsettled'),
+                  ),
+                default: () =>
+                  act.solve!.state === 'settled'
+                    ? 'The last solve settled.'
+                    : `Unsettled: ${reasonWords(act.solve!.reason ?? undefined)}.`,
               })
             : null,
         ])
@@ -50,7 +75,10 @@ export function useRoomsTable(actions: RoomRowActions, activity: () => Record<st
         h('div', { class: 'room-cell' }, [
           h(RouterLink, { to: { name: 'room', params: { id: room.id } }, class: 'room-link' }, () => room.name),
           h('div', { class: 'room-description' }, [
-            h(NTooltip, null, { trigger: () => h('span', roleLabels[room.role]), default: () => roleRights[room.role] }),
+            h(NTooltip, null, {
+              trigger: () => h('span', roleLabels[room.role]),
+              default: () => roleRights[room.role],
+            }),
             ` · ${room.memberCount} ${room.memberCount === 1 ? 'member' : 'members'}`,
             of(room)?.solve?.state === 'unsettled' ? ` · ${reasonWords(of(room)!.solve!.reason ?? undefined)}` : '',
           ]),
@@ -76,10 +104,15 @@ export function useRoomsTable(actions: RoomRowActions, activity: () => Record<st
       key: 'openPins',
       width: 96,
       align: 'right',
-      sorter: (a, b) => (of(a)?.myOpenPins ?? 0) - (of(b)?.myOpenPins ?? 0) || (of(a)?.openPins ?? 0) - (of(b)?.openPins ?? 0),
+      sorter: (a, b) =>
+        (of(a)?.myOpenPins ?? 0) - (of(b)?.myOpenPins ?? 0) || (of(a)?.openPins ?? 0) - (of(b)?.openPins ?? 0),
       render: (room) => {
         const act = of(room)
-        return h('span', { 'data-testid': 'room-open-pins', title: 'Open pins (of them, pins you started or replied to)' }, act ? `${act.openPins}${act.myOpenPins ? ` · ${act.myOpenPins} mine` : ''}` : '—')
+        return h(
+          'span',
+          { 'data-testid': 'room-open-pins', title: 'Open pins (of them, pins you started or replied to)' },
+          act ? `${act.openPins}${act.myOpenPins ? ` · ${act.myOpenPins} mine` : ''}` : '—',
+        )
       },
     },
     {
@@ -100,7 +133,11 @@ export function useRoomsTable(actions: RoomRowActions, activity: () => Record<st
             ? h(NButton, { size: 'small', secondary: true, onClick: () => actions.rename(room) }, () => 'Rename')
             : null,
           can(room.role, 'deleteRoom')
-            ? h(NButton, { size: 'small', tertiary: true, type: 'error', onClick: () => actions.remove(room) }, () => 'Delete')
+            ? h(
+                NButton,
+                { size: 'small', tertiary: true, type: 'error', onClick: () => actions.remove(room) },
+                () => 'Delete',
+              )
             : null,
         ]),
     },

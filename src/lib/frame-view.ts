@@ -45,7 +45,13 @@ const str = (v: unknown): string => (typeof v === 'string' ? v : '')
 /** Reads the frame of a room document; an empty document gives no loops. */
 export function readFrameView(doc: Y.Doc): FrameView {
   const problem = shapeProblem(doc)
-  if (problem?.path === 'frame') return { loops: [], prestress: { warp: Number.NaN, fill: Number.NaN, warpAngle: Number.NaN }, edgeLength: Number.NaN, problem }
+  if (problem?.path === 'frame')
+    return {
+      loops: [],
+      prestress: { warp: Number.NaN, fill: Number.NaN, warpAngle: Number.NaN },
+      edgeLength: Number.NaN,
+      problem,
+    }
   const root = frameMap(doc)
   const prestress = root.get('prestress')
   const mesh = root.get('mesh')

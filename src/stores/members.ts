@@ -19,7 +19,10 @@ export const useMembersStore = defineStore('members', () => {
     roomId.value = id
     loading.value = true
     try {
-      const [m, i] = await Promise.all([listMembers(id), myRole === 'owner' ? team.listInvites(id) : Promise.resolve([])])
+      const [m, i] = await Promise.all([
+        listMembers(id),
+        myRole === 'owner' ? team.listInvites(id) : Promise.resolve([]),
+      ])
       if (roomId.value !== id) return
       members.value = m
       invites.value = i

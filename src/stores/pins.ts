@@ -73,9 +73,11 @@ export const usePinsStore = defineStore('pins', () => {
   /** Adds a reply to a pin's thread. */
   const reply = async (pinId: string, body: string) => merge(await team.replyToPin(room(), pinId, body.trim()))
   /** Resolves or reopens (editor and up). */
-  const setResolved = async (pinId: string, resolved: boolean) => merge(await team.patchPin(room(), pinId, { resolved }))
+  const setResolved = async (pinId: string, resolved: boolean) =>
+    merge(await team.patchPin(room(), pinId, { resolved }))
   /** Changes the text (author only). */
-  const editBody = async (pinId: string, body: string) => merge(await team.patchPin(room(), pinId, { body: body.trim() }))
+  const editBody = async (pinId: string, body: string) =>
+    merge(await team.patchPin(room(), pinId, { body: body.trim() }))
   /** Deletes a pin (author only). */
   async function remove(pinId: string): Promise<void> {
     await team.deletePin(room(), pinId)
@@ -107,5 +109,20 @@ export const usePinsStore = defineStore('pins', () => {
     }
   }
 
-  return { roomId, pins, loading, selectedId, draft, load, startDraft, cancelDraft, createPinAt, reply, setResolved, editBody, remove, listen }
+  return {
+    roomId,
+    pins,
+    loading,
+    selectedId,
+    draft,
+    load,
+    startDraft,
+    cancelDraft,
+    createPinAt,
+    reply,
+    setResolved,
+    editBody,
+    remove,
+    listen,
+  }
 })

@@ -29,7 +29,11 @@ export const useRoomsStore = defineStore('rooms', () => {
 
   /** Create a room (I become its owner) from a starting frame and put it at the top of the list. */
   async function create(name: string, description: string, starter?: StarterKey): Promise<RoomDetail> {
-    const room = await api.createRoom({ name: name.trim(), description: description.trim(), ...(starter ? { starter } : {}) })
+    const room = await api.createRoom({
+      name: name.trim(),
+      description: description.trim(),
+      ...(starter ? { starter } : {}),
+    })
     rooms.value = [summaryOf(room), ...rooms.value.filter((r) => r.id !== room.id)]
     return room
   }

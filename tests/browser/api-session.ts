@@ -17,7 +17,11 @@ export async function apiSession(): Promise<ApiSession> {
   let csrf: string | null = null
   const call = async <T>(method: string, path: string, body?: unknown): Promise<T> => {
     if (method !== 'GET' && !csrf) csrf = ((await (await http.get('/api/auth/csrf')).json()) as { token: string }).token
-    const res = await http.fetch(path, { method, data: body, headers: method === 'GET' ? {} : { 'x-csrf-token': csrf! } })
+    const res = await http.fetch(path, {
+      method,
+      data: body,
+      headers: method === 'GET' ? {} : { 'x-csrf-token': csrf! },
+    })
     // Sign-in and sign-up start a new session, with a new token.
     if (/^\/api\/auth\/(signin|signup|signout)$/.test(path)) csrf = null
     const text = await res.text()
@@ -36,14 +40,22 @@ export async function signedIn(email: string, password: string): Promise<ApiSess
 
 /** The invite link's token from the newest mail to `email` in the dev mailbox. */
 export async function inviteToken(s: ApiSession, email: string): Promise<string> {
-  const { messages } = await s.call<{ messages: { text: string }[] }>('GET', `/api/dev/mailbox?to=${encodeURIComponent(email)}`)
+  const { messages } = await s.call<{ messages: { text: string }[] }>(
+    'GET',
+    `/api/dev/mailbox?to=${encodeURIComponent(email)}`,
+  )
   const token = messages[0]?.text.match(/\/invite\/([A-Za-z0-9_-]{43})/)?.[1]
   if (!token) throw new Error(`no invite mail for ${email} in the dev mailbox`)
   return token
 }
 
 /** Signs up a new account and makes it a member of `roomId` with `role` through a real invite. */
-export async function memberWithRole(owner: ApiSession, roomId: string, role: string, tag: string): Promise<ApiSession> {
+export async function memberWithRole(
+  owner: ApiSession,
+  roomId: string,
+  role: string,
+  tag: string,
+): Promise<ApiSession> {
   const email = `${tag}-${Date.now()}@example.test`
   const guest = await apiSession()
   await guest.call('POST', '/api/auth/signup', { name: `Wren ${tag}`, email, password: 'a long enough password' })

@@ -41,7 +41,8 @@ async function settledAfter(page: Page, after: number, includesMine = false): Pr
   return Number(await status.getAttribute('data-version'))
 }
 
-const areaOf = async (page: Page): Promise<number> => Number(await page.getByTestId('figure-area').getAttribute('data-value'))
+const areaOf = async (page: Page): Promise<number> =>
+  Number(await page.getByTestId('figure-area').getAttribute('data-value'))
 
 /**
  * Share of a PNG's pixels, decoded in the page, that differ clearly from the viewport background
@@ -62,7 +63,12 @@ async function pixelShare(page: Page, png: Buffer, kind: 'painted' | 'red' = 'pa
       let hits = 0
       for (let i = 0; i < d.length; i += 4) {
         const [r, gr, b] = [d[i]!, d[i + 1]!, d[i + 2]!]
-        if (kind === 'red' ? r > 200 && gr < 160 && b < 160 : Math.abs(r - 0xf7) + Math.abs(gr - 0xf4) + Math.abs(b - 0xee) > 30) hits++
+        if (
+          kind === 'red'
+            ? r > 200 && gr < 160 && b < 160
+            : Math.abs(r - 0xf7) + Math.abs(gr - 0xf4) + Math.abs(b - 0xee) > 30
+        )
+          hits++
       }
       return hits / (d.length / 4)
     },
@@ -85,7 +91,11 @@ async function uploadRedPlan(page: Page, roomId: string): Promise<number> {
     const scale = { ax: 0, ay: 0, bx: 200, by: 0, distance: 20, originX: 40, originY: 160 }
     for (const [k, v] of Object.entries(scale)) form.append(k, String(v))
     const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
-    const res = await fetch(`/api/rooms/${roomId}/underlay`, { method: 'PUT', headers: { 'x-csrf-token': token }, body: form })
+    const res = await fetch(`/api/rooms/${roomId}/underlay`, {
+      method: 'PUT',
+      headers: { 'x-csrf-token': token },
+      body: form,
+    })
     return res.status
   }, roomId)
 }
@@ -108,8 +118,14 @@ describe('live room: two editors and a reviewer', () => {
   it('owner and editor both see the surface settle with the same figures', async () => {
     const [vo, ve] = await Promise.all([settledAfter(owner.page, 0), settledAfter(editor.page, 0)])
     // both may settle at different moments; wait until they agree on the version
-    await owner.page.waitForFunction((v) => Number(document.querySelector('[data-testid=solver-status]')?.getAttribute('data-version')) >= v, ve)
-    await editor.page.waitForFunction((v) => Number(document.querySelector('[data-testid=solver-status]')?.getAttribute('data-version')) >= v, vo)
+    await owner.page.waitForFunction(
+      (v) => Number(document.querySelector('[data-testid=solver-status]')?.getAttribute('data-version')) >= v,
+      ve,
+    )
+    await editor.page.waitForFunction(
+      (v) => Number(document.querySelector('[data-testid=solver-status]')?.getAttribute('data-version')) >= v,
+      vo,
+    )
     before = { version: Math.max(vo, ve), area: await areaOf(editor.page) }
     expect(before.area).toBeGreaterThan(0)
     expect(await areaOf(owner.page)).toBeCloseTo(before.area, 9)
@@ -129,7 +145,13 @@ describe('live room: two editors and a reviewer', () => {
     expect(areaEditor).not.toBeCloseTo(before.area, 6)
     // the owner's browser shows the edit in its table and settles at a version at least as new
     await owner.page.waitForFunction(
-      (z) => Math.abs(Number((document.querySelector('[data-testid=point-row] [data-testid=point-z] input') as { value: string } | null)?.value) - z) < 1e-6,
+      (z) =>
+        Math.abs(
+          Number(
+            (document.querySelector('[data-testid=point-row] [data-testid=point-z] input') as { value: string } | null)
+              ?.value,
+          ) - z,
+        ) < 1e-6,
       next,
       { timeout: SETTLE_MS },
     )
@@ -180,7 +202,9 @@ describe('live room: two editors and a reviewer', () => {
       await openRoomTab(page, 'settings')
       await page.getByTestId('underlay-visible').click()
       // polled: the red goes once a frame is drawn after the toggle (no guessed sleep)
-      await expect.poll(async () => pixelShare(page, await canvas.screenshot(), 'red'), { timeout: 10_000 }).toBeLessThan(0.001)
+      await expect
+        .poll(async () => pixelShare(page, await canvas.screenshot(), 'red'), { timeout: 10_000 })
+        .toBeLessThan(0.001)
     } finally {
       await page.evaluate(async (roomId) => {
         const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
@@ -196,7 +220,10 @@ describe('live room: two editors and a reviewer', () => {
     // "A Survey of Minimal Surfaces", recalled): the picked point lies within the frame's box
     // (read first: the Points tab closes when the draft opens the Pins tab).
     const coords = async (axis: string) =>
-      (await page.getByTestId(`point-${axis}`).locator('input').evaluateAll((els) => els.map((e) => Number((e as unknown as { value: string }).value))))
+      await page
+        .getByTestId(`point-${axis}`)
+        .locator('input')
+        .evaluateAll((els) => els.map((e) => Number((e as unknown as { value: string }).value)))
     const [xs, ys, zs] = [await coords('x'), await coords('y'), await coords('z')]
     expect(xs.length).toBeGreaterThanOrEqual(3)
     const box = (await page.getByTestId('viewport-canvas').boundingBox())!

@@ -19,7 +19,13 @@ export interface PdfPage {
   words: PdfWord[]
 }
 
-const unescape = (s: string): string => s.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&')
+const unescape = (s: string): string =>
+  s
+    .replace(/&lt;/g, '<')
+    .replace(/&gt;/g, '>')
+    .replace(/&quot;/g, '"')
+    .replace(/&apos;/g, "'")
+    .replace(/&amp;/g, '&')
 
 /**
  * Reads a PDF back with poppler-utils' pdftotext (Debian package poppler-utils): the layout text of
@@ -32,8 +38,14 @@ export async function readPdf(file: string): Promise<PdfPage[]> {
     width: Number(m[1]),
     height: Number(m[2]),
     text: layout[i] ?? '',
-    words: [...m[3]!.matchAll(/<word xMin="([\d.-]+)" yMin="([\d.-]+)" xMax="([\d.-]+)" yMax="([\d.-]+)">([^<]*)<\/word>/g)].map((w) => ({
-      xMin: Number(w[1]), yMin: Number(w[2]), xMax: Number(w[3]), yMax: Number(w[4]), text: unescape(w[5]!),
+    words: [
+      ...m[3]!.matchAll(/<word xMin="([\d.-]+)" yMin="([\d.-]+)" xMax="([\d.-]+)" yMax="([\d.-]+)">([^<]*)<\/word>/g),
+    ].map((w) => ({
+      xMin: Number(w[1]),
+      yMin: Number(w[2]),
+      xMax: Number(w[3]),
+      yMax: Number(w[4]),
+      text: unescape(w[5]!),
     })),
   }))
 }

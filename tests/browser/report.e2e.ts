@@ -17,16 +17,24 @@ const MM = 72 / 25.4
 const SIDE_MARGIN = 14 * MM
 
 type Reaction = [number, number, number, number, number]
-interface Result { figures: { reactions: Reaction[] } }
-interface SnapshotFrame { loops: { role: string; points: { x: number; y: number; z: number }[] }[] }
+interface Result {
+  figures: { reactions: Reaction[] }
+}
+interface SnapshotFrame {
+  loops: { role: string; points: { x: number; y: number; z: number }[] }[]
+}
 
 async function api<T>(page: Page, method: string, path: string, body?: unknown): Promise<{ status: number; json: T }> {
-  return page.evaluate(async ({ method, path, body }) => {
-    const headers: Record<string, string> = { 'content-type': 'application/json' }
-    if (method !== 'GET') headers['x-csrf-token'] = ((await (await fetch('/api/auth/csrf')).json()) as { token: string }).token
-    const res = await fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
-    return { status: res.status, json: await res.json().catch(() => null) }
-  }, { method, path, body }) as Promise<{ status: number; json: T }>
+  return page.evaluate(
+    async ({ method, path, body }) => {
+      const headers: Record<string, string> = { 'content-type': 'application/json' }
+      if (method !== 'GET')
+        headers['x-csrf-token'] = ((await (await fetch('/api/auth/csrf')).json()) as { token: string }).token
+      const res = await fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+      return { status: res.status, json: await res.json().catch(() => null) }
+    },
+    { method, path, body },
+  ) as Promise<{ status: number; json: T }>
 }
 
 /** A number as the report prints it: fixed decimals, never "-0.00". */
@@ -57,11 +65,19 @@ function checkPages(pages: PdfPage[], roomName: string): void {
   pages.forEach((p, i) => {
     const flat = p.text.replace(/\s+/g, ' ')
     expect(flat, `page ${i + 1}: header`).toContain(roomName)
-    expect(flat, `page ${i + 1}: caution`).toContain('Preliminary form-finding result. Form-finding results are preliminary')
+    expect(flat, `page ${i + 1}: caution`).toContain(
+      'Preliminary form-finding result. Form-finding results are preliminary',
+    )
     expect(flat, `page ${i + 1}: caution`).toContain('qualified engineer')
     expect(flat, `page ${i + 1}: page number`).toContain(`Page ${i + 1} of ${pages.length}`)
-    const outside = p.words.filter((w) => w.xMin < SIDE_MARGIN - 1 || w.xMax > p.width - SIDE_MARGIN + 1 || w.yMin < 5 * MM || w.yMax > p.height - 5 * MM)
-    expect(outside.map((w) => `${w.text} @ ${w.xMin.toFixed(0)}–${w.xMax.toFixed(0)}`), `page ${i + 1}: words past the margins`).toEqual([])
+    const outside = p.words.filter(
+      (w) =>
+        w.xMin < SIDE_MARGIN - 1 || w.xMax > p.width - SIDE_MARGIN + 1 || w.yMin < 5 * MM || w.yMax > p.height - 5 * MM,
+    )
+    expect(
+      outside.map((w) => `${w.text} @ ${w.xMin.toFixed(0)}–${w.xMax.toFixed(0)}`),
+      `page ${i + 1}: words past the margins`,
+    ).toEqual([])
   })
 }
 
@@ -104,25 +120,44 @@ describe('printed report (issue 15)', () => {
       const room = rooms[index]!
       // Opening the room lets the solver settle its surface; then a pin with a reply and a snapshot.
       await page.goto(`${baseUrl()}/rooms/${room.id}`)
-      await page.waitForFunction(() => document.querySelector('[data-testid=solver-status]')?.getAttribute('data-phase') === 'settled', null, { timeout: 60_000 })
-      const pinToken = `pin${RUN}`, replyToken = `reply${RUN}`
+      await page.waitForFunction(
+        () => document.querySelector('[data-testid=solver-status]')?.getAttribute('data-phase') === 'settled',
+        null,
+        { timeout: 60_000 },
+      )
+      const pinToken = `pin${RUN}`,
+        replyToken = `reply${RUN}`
       const pinText = `Check the anchor plate at this corner (${pinToken}).`
-      const pin = await api<{ pin: { id: string; author: { name: string } } }>(page, 'POST', `/api/rooms/${room.id}/pins`, { x: 1, y: 1, z: 1, docVersion: 0, body: pinText })
+      const pin = await api<{ pin: { id: string; author: { name: string } } }>(
+        page,
+        'POST',
+        `/api/rooms/${room.id}/pins`,
+        { x: 1, y: 1, z: 1, docVersion: 0, body: pinText },
+      )
       expect(pin.status).toBe(201)
       const replyText = `Plate to follow the anchor table (${replyToken}).`
-      expect((await api(page, 'POST', `/api/rooms/${room.id}/pins/${pin.json.pin.id}/replies`, { body: replyText })).status).toBe(201)
+      expect(
+        (await api(page, 'POST', `/api/rooms/${room.id}/pins/${pin.json.pin.id}/replies`, { body: replyText })).status,
+      ).toBe(201)
       const name = `For checking ${RUN}`
       const note = `Issued to the checking engineer with the frame table, run ${RUN}.`
-      const saved = await api<{ snapshot: { id: string } }>(page, 'POST', `/api/rooms/${room.id}/snapshots`, { name, note })
+      const saved = await api<{ snapshot: { id: string } }>(page, 'POST', `/api/rooms/${room.id}/snapshots`, {
+        name,
+        note,
+      })
       expect(saved.status).toBe(201)
       const sid = saved.json.snapshot.id
-      const frame = (await api<{ snapshot: { frame: SnapshotFrame } }>(page, 'GET', `/api/rooms/${room.id}/snapshots/${sid}`)).json.snapshot.frame
+      const frame = (
+        await api<{ snapshot: { frame: SnapshotFrame } }>(page, 'GET', `/api/rooms/${room.id}/snapshots/${sid}`)
+      ).json.snapshot.frame
       const result = (await api<Result>(page, 'GET', `/api/rooms/${room.id}/snapshots/${sid}/surface`)).json
 
       await page.goto(`${baseUrl()}/rooms/${room.id}/report`)
       await choose(page, name)
       // Every open pin is numbered on the plan and listed once in the pins table.
-      const openPins = (await api<{ pins: { resolved: boolean }[] }>(page, 'GET', `/api/rooms/${room.id}/pins?status=open`)).json.pins.length
+      const openPins = (
+        await api<{ pins: { resolved: boolean }[] }>(page, 'GET', `/api/rooms/${room.id}/pins?status=open`)
+      ).json.pins.length
       expect(await page.getByTestId('report-plan-pin').count()).toBe(openPins)
       expect(await page.getByTestId('report-table-pins').locator('tbody tr').count()).toBe(openPins)
       const printed = await printBoth(page, `room${index + 1}-snapshot`)
@@ -138,15 +173,22 @@ describe('printed report (issue 15)', () => {
         for (const loop of frame.loops) {
           const loopName = loop.role === 'outer' ? 'Outer' : `Hole ${++hole}`
           loop.points.forEach((p, i) => {
-            const row = new RegExp(`${loopName} P${i + 1}\\s+${esc(fixed(p.x, 3))}\\s+${esc(fixed(p.y, 3))}\\s+${esc(fixed(p.z, 3))}\\s+${loopName} E${i + 1}`)
+            const row = new RegExp(
+              `${loopName} P${i + 1}\\s+${esc(fixed(p.x, 3))}\\s+${esc(fixed(p.y, 3))}\\s+${esc(fixed(p.z, 3))}\\s+${loopName} E${i + 1}`,
+            )
             expect(pagesWith(pages, row), `${format}: frame point ${loopName} P${i + 1} on one page`).toHaveLength(1)
           })
         }
         for (const [l, p, fx, fy, fz] of result.figures.reactions) {
-          const loopName = frame.loops[l]!.role === 'outer' ? 'Outer' : `Hole ${frame.loops.slice(0, l + 1).filter((x) => x.role === 'hole').length}`
+          const loopName =
+            frame.loops[l]!.role === 'outer'
+              ? 'Outer'
+              : `Hole ${frame.loops.slice(0, l + 1).filter((x) => x.role === 'hole').length}`
           const h = Math.hypot(fx, fy)
           const cells = [fx, fy, fz, Math.hypot(h, fz)].map((v) => esc(fixed(v, 2)))
-          const row = new RegExp(`${loopName} P${p + 1}\\s+${cells.join('\\s+')}\\s+${esc(fixed((Math.atan2(fz, h) * 180) / Math.PI, 1))}`)
+          const row = new RegExp(
+            `${loopName} P${p + 1}\\s+${cells.join('\\s+')}\\s+${esc(fixed((Math.atan2(fz, h) * 180) / Math.PI, 1))}`,
+          )
           expect(pagesWith(pages, row), `${format}: force at ${loopName} P${p + 1}`).toHaveLength(1)
         }
         // The pin's row (number, author, comment and reply) is not split across pages.
@@ -154,7 +196,12 @@ describe('printed report (issue 15)', () => {
         expect(pinPages, `${format}: pin`).toHaveLength(1)
         const pinPage = pages[pinPages[0]!]!.text
         const author = esc(pin.json.pin.author.name.split(' ')[0]!)
-        expect(pinPage).toMatch(new RegExp(`^\\s*\\d+\\s+1\\.00\\s+1\\.00\\s+1\\.00\\s+${author}\\s+\\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d UTC`, 'm'))
+        expect(pinPage).toMatch(
+          new RegExp(
+            `^\\s*\\d+\\s+1\\.00\\s+1\\.00\\s+1\\.00\\s+${author}\\s+\\d{4}-\\d\\d-\\d\\d \\d\\d:\\d\\d UTC`,
+            'm',
+          ),
+        )
         expect(pinPage).toContain(replyToken)
       }
     }, 180_000)

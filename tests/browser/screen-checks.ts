@@ -18,7 +18,10 @@ export function brokenHeaderWords(page: Page): Promise<string[]> {
           range.setStart(node, m.index)
           range.setEnd(node, m.index + m[0].length)
           const lines = new Set([...range.getClientRects()].filter((r) => r.width > 0).map((r) => Math.round(r.top)))
-          if (lines.size > 1) found.push(`header "${th.textContent?.trim()}": "${m[0]}" broken over ${lines.size} lines (cell ${th.clientWidth} px wide)`)
+          if (lines.size > 1)
+            found.push(
+              `header "${th.textContent?.trim()}": "${m[0]}" broken over ${lines.size} lines (cell ${th.clientWidth} px wide)`,
+            )
         }
       }
     }
@@ -40,7 +43,9 @@ export function watchPage(page: Page, where: () => string, into: string[]): void
     if (msg.type() === 'error') into.push(`${where()}: console error: ${msg.text()}`)
   })
   page.on('pageerror', (err) => into.push(`${where()}: uncaught: ${err.message}`))
-  page.on('requestfailed', (req) => into.push(`${where()}: request failed: ${req.method()} ${req.url()} (${req.failure()?.errorText})`))
+  page.on('requestfailed', (req) =>
+    into.push(`${where()}: request failed: ${req.method()} ${req.url()} (${req.failure()?.errorText})`),
+  )
   page.on('response', (res) => {
     if (res.status() >= 400) into.push(`${where()}: ${res.status()} for ${res.request().method()} ${res.url()}`)
   })
@@ -71,6 +76,9 @@ export function trackRequests(page: Page): { quiet: (ms?: number) => Promise<voi
 /** Waits until layout has followed a viewport change (two animation frames and the resize observers). */
 export async function settleLayout(page: Page): Promise<void> {
   await page.evaluate(
-    () => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(resolve, 120)))),
+    () =>
+      new Promise<void>((resolve) =>
+        requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(resolve, 120))),
+      ),
   )
 }

@@ -22,7 +22,9 @@ const ROOM_TABS = ['points', 'figures', 'settings', 'pins', 'snapshots', 'member
 // A screenshot of the room costs seconds on a loaded machine (software WebGL): the list tabs are
 // photographed at every width, the others at the first; every tab is checked at every width.
 const LIST_TABS: ReadonlySet<string> = new Set(['points', 'pins', 'snapshots', 'members'])
-const shotsDir = process.env.SCREENS_DIR ?? join(tmpdir(), `veilroom-screens-${new Date().toISOString().replace(/\D/g, '').slice(0, 14)}`)
+const shotsDir =
+  process.env.SCREENS_DIR ??
+  join(tmpdir(), `veilroom-screens-${new Date().toISOString().replace(/\D/g, '').slice(0, 14)}`)
 
 interface Route {
   name: string
@@ -59,7 +61,9 @@ beforeAll(async () => {
   inviteLink = `/invite/${await inviteToken(owner, invitee)}`
   const { snapshots } = await owner.call<{ snapshots: { id: string }[] }>('GET', `/api/rooms/${roomId}/snapshots`)
   while (snapshots.length < 2) {
-    const { snapshot } = await owner.call<{ snapshot: { id: string } }>('POST', `/api/rooms/${roomId}/snapshots`, { name: `Screens check ${snapshots.length + 1}` })
+    const { snapshot } = await owner.call<{ snapshot: { id: string } }>('POST', `/api/rooms/${roomId}/snapshots`, {
+      name: `Screens check ${snapshots.length + 1}`,
+    })
     snapshots.unshift(snapshot)
   }
   snapshotIds = snapshots.slice(0, 2).map((s) => s.id)
@@ -76,7 +80,11 @@ function memberRoutes(): Route[] {
     { name: 'new-room', path: '/rooms/new', ready: 'form' },
     { name: 'room', path: `/rooms/${roomId}`, ready: 'canvas[data-testid=viewport-canvas]', tabs: ROOM_TABS },
     { name: 'compare-empty', path: `/rooms/${roomId}/compare`, ready: '[data-testid=compare-pickers]' },
-    { name: 'compare', path: `/rooms/${roomId}/compare?a=${snapshotIds[1]}&b=${snapshotIds[0]}`, ready: 'canvas[data-testid=compare-b]' },
+    {
+      name: 'compare',
+      path: `/rooms/${roomId}/compare?a=${snapshotIds[1]}&b=${snapshotIds[0]}`,
+      ready: 'canvas[data-testid=compare-b]',
+    },
     { name: 'report', path: `/rooms/${roomId}/report`, ready: '[data-testid=report-page]' },
     { name: 'invite', path: inviteLink, ready: '[data-testid=invite-room]' },
     { name: 'mailbox', path: '/dev/mailbox', ready: '[data-testid=mailbox]' },
@@ -115,11 +123,14 @@ async function visitAll(who: string, context: BrowserContext, routes: Route[]): 
         const overflow = await sidewaysOverflow(page)
         if (overflow > 0) problems.push(`${where}: the page is ${overflow} px wider than the window`)
         if (!tab || LIST_TABS.has(tab) || size === WIDTHS[0] || process.env.SCREENS_ALL) {
-          await page.screenshot({ path: join(shotsDir, `${who}-${route.name}${tab ? `-${tab}` : ''}-${size.width}.png`) })
+          await page.screenshot({
+            path: join(shotsDir, `${who}-${route.name}${tab ? `-${tab}` : ''}-${size.width}.png`),
+          })
         }
       }
     }
-    if (process.env.SCREENS_TIMING) console.log(`[screens] ${who} ${route.name}: load ${t1 - t0} ms, checks ${Date.now() - t1} ms`)
+    if (process.env.SCREENS_TIMING)
+      console.log(`[screens] ${who} ${route.name}: load ${t1 - t0} ms, checks ${Date.now() - t1} ms`)
     page.removeAllListeners()
     await page.close()
   }
@@ -127,14 +138,18 @@ async function visitAll(who: string, context: BrowserContext, routes: Route[]): 
 }
 
 describe('every screen at working widths and from every door', () => {
-  it.each(['owner', 'editor', 'reviewer', 'viewer'])('as %s: no errors, no failed requests, no broken headers', async (role) => {
-    const context = await browser.newContext({ storageState: await sessions.get(role)!.http.storageState() })
-    try {
-      expect(await visitAll(role, context, memberRoutes())).toEqual([])
-    } finally {
-      await context.close()
-    }
-  }, 600_000)
+  it.each(['owner', 'editor', 'reviewer', 'viewer'])(
+    'as %s: no errors, no failed requests, no broken headers',
+    async (role) => {
+      const context = await browser.newContext({ storageState: await sessions.get(role)!.http.storageState() })
+      try {
+        expect(await visitAll(role, context, memberRoutes())).toEqual([])
+      } finally {
+        await context.close()
+      }
+    },
+    600_000,
+  )
 
   it('signed out: the public pages', async () => {
     const context = await browser.newContext()

@@ -74,7 +74,10 @@ describe('signing in as the demo editor', () => {
       expect(caution).toContain('qualified engineer')
     }
     await openRoomTab(page, 'members')
-    await page.getByTestId('room-members').getByText(/\(you\)$/).waitFor()
+    await page
+      .getByTestId('room-members')
+      .getByText(/\(you\)$/)
+      .waitFor()
     expect(await page.getByTestId('room-members').getByText('(you)').count()).toBe(1)
   })
 

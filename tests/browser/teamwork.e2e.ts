@@ -18,12 +18,24 @@ const BEFORE = `Sail before review ${RUN}`
 const AFTER = `Sail after review ${RUN}`
 
 /** POST/PATCH from inside the page, with the session cookie and a CSRF token, like the app does. */
-async function apiCall(page: Page, method: string, path: string, body: unknown): Promise<{ status: number; json: unknown }> {
-  return page.evaluate(async ({ method, path, body }) => {
-    const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
-    const res = await fetch(path, { method, headers: { 'content-type': 'application/json', 'x-csrf-token': token }, body: JSON.stringify(body) })
-    return { status: res.status, json: await res.json().catch(() => null) }
-  }, { method, path, body })
+async function apiCall(
+  page: Page,
+  method: string,
+  path: string,
+  body: unknown,
+): Promise<{ status: number; json: unknown }> {
+  return page.evaluate(
+    async ({ method, path, body }) => {
+      const { token } = (await (await fetch('/api/auth/csrf')).json()) as { token: string }
+      const res = await fetch(path, {
+        method,
+        headers: { 'content-type': 'application/json', 'x-csrf-token': token },
+        body: JSON.stringify(body),
+      })
+      return { status: res.status, json: await res.json().catch(() => null) }
+    },
+    { method, path, body },
+  )
 }
 
 /** Share of a canvas's pixels that differ clearly from the page background (#f7f4ee). */
@@ -38,7 +50,8 @@ async function paintedShare(page: Page, testId: string): Promise<number> {
     g.drawImage(c, 0, 0)
     const d = g.getImageData(0, 0, t.width, t.height).data
     let painted = 0
-    for (let i = 0; i < d.length; i += 4) if (Math.abs(d[i]! - 0xf7) + Math.abs(d[i + 1]! - 0xf4) + Math.abs(d[i + 2]! - 0xee) > 30) painted++
+    for (let i = 0; i < d.length; i += 4)
+      if (Math.abs(d[i]! - 0xf7) + Math.abs(d[i + 1]! - 0xf4) + Math.abs(d[i + 2]! - 0xee) > 30) painted++
     return painted / (d.length / 4)
   }, testId)
 }
@@ -88,7 +101,9 @@ describe('team work: invite, pins, snapshots', () => {
     inviteLink = (await mail.getByTestId('mail-link').first().getAttribute('href')) ?? ''
     expect(inviteLink).toMatch(/\/invite\/[A-Za-z0-9_-]{43}$/)
     // The mailbox shows each person only the mail addressed to them (issue 12, item 2).
-    const ownerSees = await owner.page.evaluate(async () => ((await (await fetch('/api/dev/mailbox')).json()) as { messages: { to: string }[] }).messages.map((m) => m.to))
+    const ownerSees = await owner.page.evaluate(async () =>
+      ((await (await fetch('/api/dev/mailbox')).json()) as { messages: { to: string }[] }).messages.map((m) => m.to),
+    )
     expect(ownerSees.filter((to) => to.includes(GUEST))).toEqual([])
   })
 
@@ -121,7 +136,13 @@ describe('team work: invite, pins, snapshots', () => {
     await openRoomTab(owner.page, 'pins')
     await owner.page.getByTestId('pins-panel').waitFor()
     // Clicking the 3D surface is the workbench's job; the pin goes through the same API call.
-    const created = await apiCall(guest.page, 'POST', `/api/rooms/${roomId}/pins`, { x: 1.5, y: 2, z: 2.2, docVersion: 0, body: PIN_TEXT })
+    const created = await apiCall(guest.page, 'POST', `/api/rooms/${roomId}/pins`, {
+      x: 1.5,
+      y: 2,
+      z: 2.2,
+      docVersion: 0,
+      body: PIN_TEXT,
+    })
     expect(created.status).toBe(201)
     const card = owner.page.getByTestId('pin-card').filter({ hasText: PIN_TEXT })
     await card.waitFor({ timeout: 15_000 })

@@ -38,21 +38,39 @@ describe('server errors land beside the field they name', () => {
 
 describe('checks before sending mirror the server rules (API contract, issue 2)', () => {
   it('asks for 10 password characters, a name and an e-mail shape', () => {
-    expect(checkSignUp({ email: 'a@b.test', name: 'A', password: '123456789' })).toEqual({ password: 'Use at least 10 characters.' })
+    expect(checkSignUp({ email: 'a@b.test', name: 'A', password: '123456789' })).toEqual({
+      password: 'Use at least 10 characters.',
+    })
     expect(checkSignUp({ email: 'a@b.test', name: 'A', password: '1234567890' })).toEqual({})
-    expect(Object.keys(checkSignUp({ email: 'not-mail', name: ' ', password: '' })).sort()).toEqual(['email', 'name', 'password'])
+    expect(Object.keys(checkSignUp({ email: 'not-mail', name: ' ', password: '' })).sort()).toEqual([
+      'email',
+      'name',
+      'password',
+    ])
   })
 
   it('limits room names to 1..120 characters and descriptions to 2000', () => {
     expect(checkRoom({ name: '   ', description: '' }).name).toBeDefined()
     expect(checkRoom({ name: 'x'.repeat(120), description: 'd'.repeat(2000) })).toEqual({})
-    expect(Object.keys(checkRoom({ name: 'x'.repeat(121), description: 'd'.repeat(2001) }))).toEqual(['name', 'description'])
+    expect(Object.keys(checkRoom({ name: 'x'.repeat(121), description: 'd'.repeat(2001) }))).toEqual([
+      'name',
+      'description',
+    ])
   })
 })
 
 describe('role table (shared/protocol/roles.ts) against PRODUCT.md "Words"', () => {
   // PRODUCT.md: owner all rights / editor edit frame, snapshots, pins / reviewer pins only / viewer read only.
-  const everything: RoomAction[] = ['read', 'pin', 'resolvePin', 'editFrame', 'snapshot', 'rename', 'manageMembers', 'deleteRoom']
+  const everything: RoomAction[] = [
+    'read',
+    'pin',
+    'resolvePin',
+    'editFrame',
+    'snapshot',
+    'rename',
+    'manageMembers',
+    'deleteRoom',
+  ]
   const allowed = (role: RoomRole) => everything.filter((a) => can(role, a))
 
   it('owner: all rights', () => expect(allowed('owner')).toEqual(everything))
@@ -65,7 +83,8 @@ describe('role table (shared/protocol/roles.ts) against PRODUCT.md "Words"', () 
   it('each role has every right of the roles listed after it (an accepted invite never lowers a role)', () => {
     roomRoles.forEach((role, i) => {
       for (const weaker of roomRoles.slice(i + 1)) expect(roleCovers(role, weaker), `${role} ⊇ ${weaker}`).toBe(true)
-      for (const stronger of roomRoles.slice(0, i)) expect(roleCovers(role, stronger), `${role} ⊉ ${stronger}`).toBe(false)
+      for (const stronger of roomRoles.slice(0, i))
+        expect(roleCovers(role, stronger), `${role} ⊉ ${stronger}`).toBe(false)
     })
   })
 })

@@ -5,7 +5,12 @@ import { decide, safeRedirect, type GuardTarget } from '../../src/router/guard'
 // signed-in visiting sign-in → rooms. Redirect filtering follows the OWASP "Unvalidated Redirects
 // and Forwards" cheat sheet (recalled from memory): only accept same-site relative paths.
 
-const target = (fullPath: string, meta: GuardTarget['meta'] = {}, query: Record<string, unknown> = {}, name?: string): GuardTarget => ({
+const target = (
+  fullPath: string,
+  meta: GuardTarget['meta'] = {},
+  query: Record<string, unknown> = {},
+  name?: string,
+): GuardTarget => ({
   fullPath,
   meta,
   query,
@@ -14,7 +19,10 @@ const target = (fullPath: string, meta: GuardTarget['meta'] = {}, query: Record<
 
 describe('decide', () => {
   it('sends a signed-out visitor of a room to sign-in with the way back', () => {
-    expect(decide(target('/rooms/abc?tab=pins'), false)).toEqual({ name: 'sign-in', query: { redirect: '/rooms/abc?tab=pins' } })
+    expect(decide(target('/rooms/abc?tab=pins'), false)).toEqual({
+      name: 'sign-in',
+      query: { redirect: '/rooms/abc?tab=pins' },
+    })
   })
 
   it('leaves out ?redirect= when the way back is the rooms list anyway', () => {

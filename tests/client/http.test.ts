@@ -94,7 +94,12 @@ describe('ApiError', () => {
     })
     const err = await api.signUp({ email: 'a@b.test', name: 'A', password: 'short' }).catch((e: unknown) => e)
     expect(err).toBeInstanceOf(ApiError)
-    expect(err).toMatchObject({ code: 'invalid_input', field: 'password', status: 400, message: 'Must be at least 10 characters' })
+    expect(err).toMatchObject({
+      code: 'invalid_input',
+      field: 'password',
+      status: 400,
+      message: 'Must be at least 10 characters',
+    })
   })
 
   it('maps 401 bad_credentials and 429 rate_limited from sign-in', async () => {
@@ -106,13 +111,26 @@ describe('ApiError', () => {
           ? { status: 401, body: { error: { code: 'bad_credentials', message: 'Wrong e-mail or password' } } }
           : { status: 429, body: { error: { code: 'rate_limited', message: 'Too many attempts' } } },
     })
-    await expect(api.signIn({ email: 'x@y.test', password: 'p' })).rejects.toMatchObject({ code: 'bad_credentials', status: 401 })
-    await expect(api.signIn({ email: 'x@y.test', password: 'p' })).rejects.toMatchObject({ code: 'rate_limited', status: 429 })
+    await expect(api.signIn({ email: 'x@y.test', password: 'p' })).rejects.toMatchObject({
+      code: 'bad_credentials',
+      status: 401,
+    })
+    await expect(api.signIn({ email: 'x@y.test', password: 'p' })).rejects.toMatchObject({
+      code: 'rate_limited',
+      status: 429,
+    })
   })
 
   it('names the status when the error body is not the contract shape (e.g. a proxy page)', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => new Response('<html>Bad Gateway</html>', { status: 502, statusText: 'Bad Gateway' })))
-    await expect(api.me()).rejects.toMatchObject({ code: 'http_502', status: 502, message: 'The server answered 502 Bad Gateway' })
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => new Response('<html>Bad Gateway</html>', { status: 502, statusText: 'Bad Gateway' })),
+    )
+    await expect(api.me()).rejects.toMatchObject({
+      code: 'http_502',
+      status: 502,
+      message: 'The server answered 502 Bad Gateway',
+    })
   })
 
   it('reports an unreachable server as code "network" with status 0', async () => {

@@ -1,7 +1,15 @@
 import { describe, expect, it } from 'vitest'
 import { loopPointLabels } from '../../src/lib/report/labels'
 import { cssString, pageStyle } from '../../src/lib/report/page-style'
-import { backToFront, faceShades, faceSlopeAngles, planTransform, projectVertices, scaleBarLength, viewAxes } from '../../src/lib/report/projection'
+import {
+  backToFront,
+  faceShades,
+  faceSlopeAngles,
+  planTransform,
+  projectVertices,
+  scaleBarLength,
+  viewAxes,
+} from '../../src/lib/report/projection'
 import { planView, slopeMapView } from '../../src/lib/report/views'
 import { structuredMesh } from '../helpers/meshes'
 
@@ -10,7 +18,12 @@ const dot = (a: readonly number[], b: readonly number[]) => a[0]! * b[0]! + a[1]
 describe('report projection', () => {
   it('view axes are orthonormal; from the south-west, right points south-east and up has a positive z', () => {
     const { right, up, towards } = viewAxes(225, 30)
-    for (const [a, b] of [[right, up], [up, towards], [towards, right]] as const) expect(dot(a, b)).toBeCloseTo(0, 12)
+    for (const [a, b] of [
+      [right, up],
+      [up, towards],
+      [towards, right],
+    ] as const)
+      expect(dot(a, b)).toBeCloseTo(0, 12)
     for (const v of [right, up, towards]) expect(dot(v, v)).toBeCloseTo(1, 12)
     expect(right[0]).toBeCloseTo(Math.SQRT1_2, 12)
     expect(right[1]).toBeCloseTo(-Math.SQRT1_2, 12)
@@ -51,29 +64,70 @@ describe('report drawings', () => {
   it('spreads a small ring’s twelve labels on a circle wide enough for their width', () => {
     const xs = Array.from({ length: 12 }, (_, i) => 100 + 10 * Math.cos((i * Math.PI) / 6))
     const ys = Array.from({ length: 12 }, (_, i) => 100 + 10 * Math.sin((i * Math.PI) / 6))
-    const labels = loopPointLabels(xs, ys, xs.map((_, i) => `H1 P${i + 1}`))
+    const labels = loopPointLabels(
+      xs,
+      ys,
+      xs.map((_, i) => `H1 P${i + 1}`),
+    )
     for (let i = 0; i < 12; i++) {
-      const a = labels[i]!, b = labels[(i + 1) % 12]!
+      const a = labels[i]!,
+        b = labels[(i + 1) % 12]!
       expect(Math.hypot(a.label.x - b.label.x, a.label.y - b.label.y)).toBeGreaterThan(30)
       expect(a.leader).not.toBeNull()
     }
   })
 
-  const frame = { prestress: { warp: 3, fill: 3 }, mesh: { edgeLength: 1 }, loops: [{ role: 'outer' as const, points: [{ id: 'a', x: 0, y: 0, z: 0 }, { id: 'b', x: 4, y: 0, z: 0 }, { id: 'c', x: 4, y: 4, z: 4 }, { id: 'd', x: 0, y: 4, z: 0 }], edges: Array.from({ length: 4 }, () => ({ kind: 'rigid' as const })) }] }
+  const frame = {
+    prestress: { warp: 3, fill: 3 },
+    mesh: { edgeLength: 1 },
+    loops: [
+      {
+        role: 'outer' as const,
+        points: [
+          { id: 'a', x: 0, y: 0, z: 0 },
+          { id: 'b', x: 4, y: 0, z: 0 },
+          { id: 'c', x: 4, y: 4, z: 4 },
+          { id: 'd', x: 0, y: 4, z: 0 },
+        ],
+        edges: Array.from({ length: 4 }, () => ({ kind: 'rigid' as const })),
+      },
+    ],
+  }
   // the bilinear hypar z = x·y/4 through the four corners
   const mesh = structuredMesh(8, 8, (s, t) => [4 * s, 4 * t, 4 * s * t])
 
   it('draws the plan with contours at the stated interval, labelled, and numbered pins', () => {
-    const v = planView(mesh, frame, [{ x: 1, y: 1 }, { x: 3, y: 1 }], 600, 600)
+    const v = planView(
+      mesh,
+      frame,
+      [
+        { x: 1, y: 1 },
+        { x: 3, y: 1 },
+      ],
+      600,
+      600,
+    )
     expect(v.interval).toBe(0.5)
     expect(v.contours.map((c) => c.level)).toEqual([0.5, 1, 1.5, 2, 2.5, 3, 3.5])
     expect(v.contourLabels.map((l) => l.text)).toEqual(['0.50', '1.00', '1.50', '2.00', '2.50', '3.00', '3.50'])
     expect(v.points.map((p) => p.label.text)).toEqual(['P1', 'P2', 'P3', 'P4'])
     expect(v.pins.map((p) => p.text)).toEqual(['1', '2'])
     // pins on one spot: the later discs move aside, clear of each other, with a leader to the point
-    const stacked = planView(mesh, frame, [{ x: 1, y: 1 }, { x: 1, y: 1 }, { x: 1, y: 1 }], 600, 600).pins
+    const stacked = planView(
+      mesh,
+      frame,
+      [
+        { x: 1, y: 1 },
+        { x: 1, y: 1 },
+        { x: 1, y: 1 },
+      ],
+      600,
+      600,
+    ).pins
     expect(stacked[0]!.leader).toBeNull()
-    for (let i = 0; i < 3; i++) for (let j = 0; j < i; j++) expect(Math.hypot(stacked[i]!.x - stacked[j]!.x, stacked[i]!.y - stacked[j]!.y)).toBeGreaterThanOrEqual(17)
+    for (let i = 0; i < 3; i++)
+      for (let j = 0; j < i; j++)
+        expect(Math.hypot(stacked[i]!.x - stacked[j]!.x, stacked[i]!.y - stacked[j]!.y)).toBeGreaterThanOrEqual(17)
     expect(v.faces).toHaveLength(128)
   })
 
@@ -89,7 +143,11 @@ describe('report drawings', () => {
 describe('report page style', () => {
   it('writes CSS strings with quotes, backslashes and line breaks escaped', () => {
     expect(cssString('Room "A" \\ B\nC')).toBe('"Room \\"A\\" \\\\ B\\A C"')
-    const css = pageStyle({ header: 'Veilroom report · “Sail”', date: 'Printed 2026-12-02', caution: 'Check "all" of it.' })
+    const css = pageStyle({
+      header: 'Veilroom report · “Sail”',
+      date: 'Printed 2026-12-02',
+      caution: 'Check "all" of it.',
+    })
     expect(css).toContain('margin: 18mm 14mm 24mm 14mm;')
     expect(css).toContain('content: "Check \\"all\\" of it.";')
     expect(css).toContain('counter(page) " of " counter(pages)')

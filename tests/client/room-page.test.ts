@@ -52,7 +52,10 @@ describe('useRoomPage', () => {
   })
 
   it('marks a 404 as missing rather than as an error', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => json(404, { error: { code: 'room_not_found', message: 'No such room' } })))
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => json(404, { error: { code: 'room_not_found', message: 'No such room' } })),
+    )
     const page = useRoomPage(ref('gone'))
     await settle()
     await settle()
@@ -62,7 +65,10 @@ describe('useRoomPage', () => {
   })
 
   it('shows other failures as an error the user can retry', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => json(500, { error: { code: 'internal', message: 'Database is down' } })))
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => json(500, { error: { code: 'internal', message: 'Database is down' } })),
+    )
     const page = useRoomPage(ref('r1'))
     await settle()
     await settle()

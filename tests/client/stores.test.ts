@@ -47,7 +47,9 @@ describe('useSessionStore', () => {
           : { status: 401, body: { error: { code: 'bad_credentials', message: 'Wrong e-mail or password' } } },
     })
     const session = useSessionStore()
-    await expect(session.signIn(' editor@demo.veilroom.test ', 'wrong')).rejects.toMatchObject({ code: 'bad_credentials' })
+    await expect(session.signIn(' editor@demo.veilroom.test ', 'wrong')).rejects.toMatchObject({
+      code: 'bad_credentials',
+    })
     expect(session.signedIn).toBe(false)
     await session.signIn('editor@demo.veilroom.test', 'right-password')
     expect(session.user?.email).toBe(editor.email)
@@ -55,7 +57,10 @@ describe('useSessionStore', () => {
   })
 
   it('signs up and is signed in straight away', async () => {
-    fakeServer({ 'GET /api/auth/csrf': csrfIssuer(), 'POST /api/auth/signup': () => ({ status: 201, body: { user: editor } }) })
+    fakeServer({
+      'GET /api/auth/csrf': csrfIssuer(),
+      'POST /api/auth/signup': () => ({ status: 201, body: { user: editor } }),
+    })
     const session = useSessionStore()
     await session.signUp('editor@demo.veilroom.test', '  Edda Editor ', 'long enough password')
     expect(session.signedIn).toBe(true)
@@ -76,8 +81,14 @@ describe('useRoomsStore', () => {
     fakeServer({
       'GET /api/auth/csrf': csrfIssuer(),
       'GET /api/rooms': () => ({ status: 200, body: { rooms: [room('r1', 'Terrace sail')] } }),
-      'POST /api/rooms': (req) => ({ status: 201, body: { room: room(`n${++created}`, (req.body as { name: string }).name) } }),
-      'PATCH /api/rooms/r1': (req) => ({ status: 200, body: { room: room('r1', (req.body as { name: string }).name) } }),
+      'POST /api/rooms': (req) => ({
+        status: 201,
+        body: { room: room(`n${++created}`, (req.body as { name: string }).name) },
+      }),
+      'PATCH /api/rooms/r1': (req) => ({
+        status: 200,
+        body: { room: room('r1', (req.body as { name: string }).name) },
+      }),
       'DELETE /api/rooms/r1': () => ({ status: 204 }),
     })
     const rooms = useRoomsStore()

@@ -1,22 +1,30 @@
 import { describe, expect, it } from 'vitest'
 import type { SnapshotFigures } from '../../src/api/team'
 import { figureDifferences, formatDiff } from '../../src/composables/use-compare'
-import { legendMax, legendTicks, rampColours, vertexSlopes, DISTANCE_RAMP } from '../../src/composables/use-compare-colours'
+import {
+  legendMax,
+  legendTicks,
+  rampColours,
+  vertexSlopes,
+  DISTANCE_RAMP,
+} from '../../src/composables/use-compare-colours'
 import { nearestVertexDistances } from '../../src/composables/use-compare-distance'
 
 /** Regular grid of n×n vertices over [0, size]² with z = f(x, y), two triangles per cell. */
 function grid(n: number, size: number, f: (x: number, y: number) => number) {
   const vertices: number[] = []
   const triangles: number[] = []
-  for (let j = 0; j < n; j++) for (let i = 0; i < n; i++) {
-    const x = (i / (n - 1)) * size
-    const y = (j / (n - 1)) * size
-    vertices.push(x, y, f(x, y))
-  }
-  for (let j = 0; j + 1 < n; j++) for (let i = 0; i + 1 < n; i++) {
-    const a = j * n + i
-    triangles.push(a, a + 1, a + n + 1, a, a + n + 1, a + n)
-  }
+  for (let j = 0; j < n; j++)
+    for (let i = 0; i < n; i++) {
+      const x = (i / (n - 1)) * size
+      const y = (j / (n - 1)) * size
+      vertices.push(x, y, f(x, y))
+    }
+  for (let j = 0; j + 1 < n; j++)
+    for (let i = 0; i + 1 < n; i++) {
+      const a = j * n + i
+      triangles.push(a, a + 1, a + n + 1, a, a + n + 1, a + n)
+    }
   return { vertices: Float64Array.from(vertices), triangles: Uint32Array.from(triangles) }
 }
 
@@ -26,7 +34,10 @@ function bruteForce(from: ArrayLike<number>, to: ArrayLike<number>): number[] {
   for (let j = 0; j < to.length / 3; j++) {
     let best = Infinity
     for (let i = 0; i < from.length / 3; i++) {
-      best = Math.min(best, Math.hypot(from[3 * i]! - to[3 * j]!, from[3 * i + 1]! - to[3 * j + 1]!, from[3 * i + 2]! - to[3 * j + 2]!))
+      best = Math.min(
+        best,
+        Math.hypot(from[3 * i]! - to[3 * j]!, from[3 * i + 1]! - to[3 * j + 1]!, from[3 * i + 2]! - to[3 * j + 2]!),
+      )
     }
     out.push(best)
   }
@@ -54,7 +65,7 @@ describe('nearest-vertex distance', () => {
 
   it('agrees with brute force on random clouds, including points far outside the grid', () => {
     let seed = 7
-    const rand = () => ((seed = (seed * 16807) % 2147483647) / 2147483647)
+    const rand = () => (seed = (seed * 16807) % 2147483647) / 2147483647
     const from = Array.from({ length: 900 }, (_, i) => (i % 3 === 2 ? rand() * 0.5 : rand() * 20))
     const to = Array.from({ length: 600 }, () => rand() * 40 - 10)
     const fast = Array.from(nearestVertexDistances(from, to))
@@ -105,16 +116,39 @@ describe('vertex slopes', () => {
 })
 
 const figures = (o: Partial<SnapshotFigures>): SnapshotFigures => ({
-  area: 0, planArea: 0, perimeter: 0, heightRange: [0, 0], slopeRange: [0, 0], flatShare: 0, ...o,
+  area: 0,
+  planArea: 0,
+  perimeter: 0,
+  heightRange: [0, 0],
+  slopeRange: [0, 0],
+  flatShare: 0,
+  ...o,
 })
 
 describe('figure differences', () => {
   // A flat 10 m × 10 m square: area = plan area = 100 m², perimeter 40 m (plane geometry, exact);
   // lifting one corner makes it a hypar with more fabric than plan.
-  const flat = figures({ area: 100, planArea: 100, perimeter: 40, heightRange: [0, 0], slopeRange: [0, 0], flatShare: 1,
-    cables: [{ loop: 0, edge: 1, length: 10, force: 25 }] })
-  const lifted = figures({ area: 104.5, planArea: 100, perimeter: 41.2, heightRange: [0, 3], slopeRange: [2, 24], flatShare: 0.05,
-    cables: [{ loop: 0, edge: 1, length: 10.4, force: 25 }, { loop: 0, edge: 3, length: 9.9, force: 18 }] })
+  const flat = figures({
+    area: 100,
+    planArea: 100,
+    perimeter: 40,
+    heightRange: [0, 0],
+    slopeRange: [0, 0],
+    flatShare: 1,
+    cables: [{ loop: 0, edge: 1, length: 10, force: 25 }],
+  })
+  const lifted = figures({
+    area: 104.5,
+    planArea: 100,
+    perimeter: 41.2,
+    heightRange: [0, 3],
+    slopeRange: [2, 24],
+    flatShare: 0.05,
+    cables: [
+      { loop: 0, edge: 1, length: 10.4, force: 25 },
+      { loop: 0, edge: 3, length: 9.9, force: 18 },
+    ],
+  })
   const rows = figureDifferences(flat, lifted)
   const get = (key: string) => rows.find((r) => r.key === key)!
 
@@ -125,7 +159,11 @@ describe('figure differences', () => {
     expect(get('planArea').diff).toBe(0)
     expect(get('heightMax').diff).toBe(3)
     expect(get('heightMax').relative).toBeNull()
-    expect(figureDifferences(figures({ slopeRange: [0, 1e-13] }), figures({ slopeRange: [0, 2] })).find((r) => r.key === 'slopeMax')!.relative).toBeNull()
+    expect(
+      figureDifferences(figures({ slopeRange: [0, 1e-13] }), figures({ slopeRange: [0, 2] })).find(
+        (r) => r.key === 'slopeMax',
+      )!.relative,
+    ).toBeNull()
     expect(get('flatShare').diff).toBeCloseTo(-95, 9)
   })
 

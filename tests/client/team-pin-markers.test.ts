@@ -6,8 +6,17 @@ import { buildPinMarkers, PIN_COLOURS, usePinMarkers } from '../../src/composabl
 import { usePinsStore } from '../../src/stores/pins'
 
 const pin = (id: string, x: number, y: number, z: number, resolved = false): Pin => ({
-  id, x, y, z, docVersion: 3, body: id, resolved, author: { id: 'u', name: 'U' },
-  createdAt: '2026-01-01T00:00:00.000Z', updatedAt: '2026-01-01T00:00:00.000Z', replies: [],
+  id,
+  x,
+  y,
+  z,
+  docVersion: 3,
+  body: id,
+  resolved,
+  author: { id: 'u', name: 'U' },
+  createdAt: '2026-01-01T00:00:00.000Z',
+  updatedAt: '2026-01-01T00:00:00.000Z',
+  replies: [],
 })
 
 describe('pin markers', () => {

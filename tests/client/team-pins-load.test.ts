@@ -11,13 +11,26 @@ vi.mock('../../src/api/team', async (original) => ({
 const { usePinsStore } = await import('../../src/stores/pins')
 
 const pin = (id: string, updatedAt = '2026-01-01T10:00:00.000Z'): Pin => ({
-  id, x: 0, y: 0, z: 0, docVersion: 1, body: id, resolved: false, author: { id: 'u', name: 'U' },
-  createdAt: '2026-01-01T10:00:00.000Z', updatedAt, replies: [],
+  id,
+  x: 0,
+  y: 0,
+  z: 0,
+  docVersion: 1,
+  body: id,
+  resolved: false,
+  author: { id: 'u', name: 'U' },
+  createdAt: '2026-01-01T10:00:00.000Z',
+  updatedAt,
+  replies: [],
 })
 
 function fakeSocket() {
   const listeners = new Map<string, (p: unknown) => void>()
-  return { listeners, on: (e: string, f: (p: unknown) => void) => listeners.set(e, f), off: (e: string) => listeners.delete(e) }
+  return {
+    listeners,
+    on: (e: string, f: (p: unknown) => void) => listeners.set(e, f),
+    off: (e: string) => listeners.delete(e),
+  }
 }
 
 describe('pins store: a list reply older than live events', () => {

@@ -1,10 +1,26 @@
 import { describe, expect, it } from 'vitest'
 import type { Pin } from '../../src/api/team'
-import { canAddPins, canResolvePins, filterPins, isPinAuthor, pinCounts, upsertPin } from '../../src/composables/use-pin-filters'
+import {
+  canAddPins,
+  canResolvePins,
+  filterPins,
+  isPinAuthor,
+  pinCounts,
+  upsertPin,
+} from '../../src/composables/use-pin-filters'
 
 const pin = (id: string, authorId: string, resolved: boolean, updatedAt: string): Pin => ({
-  id, x: 0, y: 0, z: 0, docVersion: 1, body: `pin ${id}`, resolved, author: { id: authorId, name: authorId },
-  createdAt: '2026-01-01T00:00:00.000Z', updatedAt, replies: [],
+  id,
+  x: 0,
+  y: 0,
+  z: 0,
+  docVersion: 1,
+  body: `pin ${id}`,
+  resolved,
+  author: { id: authorId, name: authorId },
+  createdAt: '2026-01-01T00:00:00.000Z',
+  updatedAt,
+  replies: [],
 })
 
 const pins = [
@@ -46,8 +62,18 @@ describe('pin filters', () => {
   // Role rules from PRODUCT.md "Words" (reviewer: pins only) and notes/teamwork-server.md §3
   // (resolve: editor and up; text and delete: author only).
   it('applies the role and authorship rules', () => {
-    expect(['owner', 'editor', 'reviewer', 'viewer'].map((r) => canResolvePins(r as never))).toEqual([true, true, false, false])
-    expect(['owner', 'editor', 'reviewer', 'viewer'].map((r) => canAddPins(r as never))).toEqual([true, true, true, false])
+    expect(['owner', 'editor', 'reviewer', 'viewer'].map((r) => canResolvePins(r as never))).toEqual([
+      true,
+      true,
+      false,
+      false,
+    ])
+    expect(['owner', 'editor', 'reviewer', 'viewer'].map((r) => canAddPins(r as never))).toEqual([
+      true,
+      true,
+      true,
+      false,
+    ])
     expect(isPinAuthor(pins[0]!, 'me')).toBe(true)
     expect(isPinAuthor(pins[1]!, 'me')).toBe(false)
     expect(isPinAuthor(pins[0]!, undefined)).toBe(false)
@@ -64,7 +90,10 @@ describe('pins store live events', () => {
     const store = usePinsStore()
     store.roomId = 'room-1'
     const listeners = new Map<string, (p: unknown) => void>()
-    const source = { on: (e: string, f: (p: unknown) => void) => listeners.set(e, f), off: (e: string) => listeners.delete(e) }
+    const source = {
+      on: (e: string, f: (p: unknown) => void) => listeners.set(e, f),
+      off: (e: string) => listeners.delete(e),
+    }
     const stop = store.listen(source)
     const changed = listeners.get('pin:changed')!
     changed({ roomId: 'room-1', pin: pins[0] })

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { clickToPixel, pixelToPlan, planToPixel, scaleFromPoints, ScaleError } from '../../src/components/team/underlay-scale'
+import {
+  clickToPixel,
+  pixelToPlan,
+  planToPixel,
+  scaleFromPoints,
+  ScaleError,
+} from '../../src/components/team/underlay-scale'
 
 describe('underlay scale from two picked points', () => {
   it('divides the known distance by the pixel distance (3-4-5 right triangle: 30, 40 → 50 px)', () => {
@@ -17,7 +23,9 @@ describe('underlay scale from two picked points', () => {
   })
 
   it('turns a click on a shrunken image into natural pixels', () => {
-    expect(clickToPixel({ offsetX: 100, offsetY: 50 }, { width: 400, height: 200 }, { width: 1600, height: 800 })).toEqual({ x: 400, y: 200 })
+    expect(
+      clickToPixel({ offsetX: 100, offsetY: 50 }, { width: 400, height: 200 }, { width: 1600, height: 800 }),
+    ).toEqual({ x: 400, y: 200 })
   })
 
   it('names the field at fault', () => {

@@ -5,7 +5,15 @@
  */
 import { describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
-import { addHole, deletePoint, insertPointAfter, movePoint, removeHole, setEdge, setSettings } from '../../shared/room-doc/edits'
+import {
+  addHole,
+  deletePoint,
+  insertPointAfter,
+  movePoint,
+  removeHole,
+  setEdge,
+  setSettings,
+} from '../../shared/room-doc/edits'
 import { readRoomFrame } from '../../shared/room-doc/read'
 import { frameMap, loopsOf, writeFrame } from '../../shared/room-doc/schema'
 import { starterFrame } from '../../shared/room-doc/starters'
@@ -21,9 +29,19 @@ const outerPoints = (doc: Y.Doc) => outer(doc).get('points') as unknown as Y.Arr
 
 const cases: { name: string; path: string; edit: (doc: Y.Doc) => void; loops: number }[] = [
   { name: 'loops replaced by a number', path: 'loops', edit: (d) => frameMap(d).set('loops', 3), loops: 0 },
-  { name: 'a string for a loop', path: 'loops[1]', edit: (d) => (loopsOf(d) as unknown as Y.Array<unknown>).insert(1, ['x']), loops: 2 },
+  {
+    name: 'a string for a loop',
+    path: 'loops[1]',
+    edit: (d) => (loopsOf(d) as unknown as Y.Array<unknown>).insert(1, ['x']),
+    loops: 2,
+  },
   { name: 'a number for a point', path: 'loops[0].points[0]', edit: (d) => outerPoints(d).insert(0, [5]), loops: 2 },
-  { name: 'text for the prestress map', path: 'prestress', edit: (d) => frameMap(d).set('prestress', new Y.Text('x')), loops: 2 },
+  {
+    name: 'text for the prestress map',
+    path: 'prestress',
+    edit: (d) => frameMap(d).set('prestress', new Y.Text('x')),
+    loops: 2,
+  },
 ]
 
 describe('malformed room document on the client', () => {
@@ -50,7 +68,13 @@ describe('malformed room document on the client', () => {
     expect(insertPointAfter(doc, loopId, pointId, { x: 1, y: 1, z: 0 })).toBeUndefined()
     expect(deletePoint(doc, loopId, pointId)).toBe(false)
     expect(setEdge(doc, loopId, pointId, 'cable', 10)).toBe(false)
-    expect(addHole(doc, [{ x: 1, y: 1, z: 0 }, { x: 2, y: 1, z: 0 }, { x: 2, y: 2, z: 0 }])).toBeUndefined()
+    expect(
+      addHole(doc, [
+        { x: 1, y: 1, z: 0 },
+        { x: 2, y: 1, z: 0 },
+        { x: 2, y: 2, z: 0 },
+      ]),
+    ).toBeUndefined()
     expect(removeHole(doc, loopId)).toBe(false)
     frameMap(doc).set('prestress', 4)
     expect(() => setSettings(doc, { warp: 3, edgeLength: 0.5 })).not.toThrow()

@@ -2,7 +2,14 @@ import { describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { Awareness } from 'y-protocols/awareness'
 import { float32Schema, parseServerEvent, reasonWords, solverReasons, uint32Schema } from '../../shared/protocol'
-import { PRESENCE_COLOURS, listPeers, ownAwarenessChange, presenceColour, readPresence, syncBase } from '../../src/api/collaboration'
+import {
+  PRESENCE_COLOURS,
+  listPeers,
+  ownAwarenessChange,
+  presenceColour,
+  readPresence,
+  syncBase,
+} from '../../src/api/collaboration'
 
 const figures = {
   area: 70.2,
@@ -67,7 +74,9 @@ describe('surface stream messages (shared/protocol/events.ts)', () => {
       'surface.triangles: 6 bytes is not a whole number of 4-byte values',
     )
     expect(uint32Schema.safeParse(new ArrayBuffer(8)).success).toBe(true)
-    expect(() => readSurface(message({ vertices: 'abc' }))).toThrow('surface.vertices: expected binary data, got string')
+    expect(() => readSurface(message({ vertices: 'abc' }))).toThrow(
+      'surface.vertices: expected binary data, got string',
+    )
     expect(() => readSurface(message({ triangles: new Uint32Array([0, 1, 9]).buffer }))).toThrow(
       'surface.triangles: vertex index 9 is out of range (3 vertices)',
     )
@@ -102,11 +111,15 @@ describe('surface stream messages (shared/protocol/events.ts)', () => {
       iteration: 3,
       residual: 0.01,
     })
-    expect(() => readSolveProgress({ roomId: 'r1', version: 4, iteration: '3', residual: 1 })).toThrow(/^solve:progress\.iteration: /)
+    expect(() => readSolveProgress({ roomId: 'r1', version: 4, iteration: '3', residual: 1 })).toThrow(
+      /^solve:progress\.iteration: /,
+    )
   })
 
   it('turns a reason code this version does not know into words, never the code', () => {
-    expect(readSolveState({ roomId: 'r1', version: 4, state: 'unsettled', reason: 'zeta-overflow' }).reason).toBe('unknown')
+    expect(readSolveState({ roomId: 'r1', version: 4, state: 'unsettled', reason: 'zeta-overflow' }).reason).toBe(
+      'unknown',
+    )
     for (const code of [...solverReasons, 'stalled', 'line-search-failed', 'zeta-overflow', undefined]) {
       const words = reasonWords(code)
       expect(words).toMatch(/^[a-z][a-z ,()]+$/)

@@ -35,7 +35,8 @@ export function freePort(): Promise<number> {
 /** The test database's environment (as scripts/test.mjs sets it), with overrides. */
 export function testEnv(extra: Record<string, string> = {}): NodeJS.ProcessEnv {
   const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'warn', ...extra }
-  if (!String(env.DB_NAME ?? '').startsWith('veilroom_test_')) throw new Error('run through `npm test` (needs a veilroom_test_ database)')
+  if (!String(env.DB_NAME ?? '').startsWith('veilroom_test_'))
+    throw new Error('run through `npm test` (needs a veilroom_test_ database)')
   return env
 }
 
@@ -51,7 +52,10 @@ export function startChild(env: NodeJS.ProcessEnv, port = 0, timeoutMs = 60_000)
       stdio: ['ignore', 'pipe', 'inherit'],
     })
     let out = ''
-    const timer = setTimeout(() => (child.kill('SIGKILL'), reject(new Error(`server did not listen within ${timeoutMs / 1000} s`))), timeoutMs)
+    const timer = setTimeout(
+      () => (child.kill('SIGKILL'), reject(new Error(`server did not listen within ${timeoutMs / 1000} s`))),
+      timeoutMs,
+    )
     const onData = (chunk: Buffer) => {
       out += chunk.toString()
       const match = /listening on (http:\/\/\S+)/.exec(out)
@@ -63,7 +67,13 @@ export function startChild(env: NodeJS.ProcessEnv, port = 0, timeoutMs = 60_000)
       done({ child, url: match[1]!, port: Number(new URL(match[1]!).port) })
     }
     child.stdout!.on('data', onData)
-    child.once('exit', (code) => (clearTimeout(timer), reject(new Error(`server exited (${code}) before listening: ${out.slice(-500)}`))))
+    child.once(
+      'exit',
+      (code) => (
+        clearTimeout(timer),
+        reject(new Error(`server exited (${code}) before listening: ${out.slice(-500)}`))
+      ),
+    )
   })
 }
 

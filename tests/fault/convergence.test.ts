@@ -9,7 +9,16 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { deletePoint, insertPointAfter, movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
-import { connectDoc, makeRoom, makeUser, signIn, startLive, until, type DocClient, type Live } from '../realtime/live-helpers.js'
+import {
+  connectDoc,
+  makeRoom,
+  makeUser,
+  signIn,
+  startLive,
+  until,
+  type DocClient,
+  type Live,
+} from '../realtime/live-helpers.js'
 
 let live: Live
 let users: { id: string; cookie: string }[] = []
@@ -31,10 +40,13 @@ afterAll(async () => {
 const frameJson = (doc: Y.Doc) => JSON.stringify(readRawFrame(doc))
 const outerId = (doc: Y.Doc) => loopsOf(doc).get(0).get('id') as string
 const pointIds = (doc: Y.Doc): string[] =>
-  ((loopsOf(doc).get(0).get('points') as Y.Array<Y.Map<unknown>>).toArray()).map((p) => p.get('id') as string)
+  (loopsOf(doc).get(0).get('points') as Y.Array<Y.Map<unknown>>).toArray().map((p) => p.get('id') as string)
 
 async function openRoom(n: number) {
-  const roomId = await makeRoom(live.running.dataSource, users.slice(0, n).map((u, i) => ({ userId: u.id, role: i === 0 ? ('owner' as const) : ('editor' as const) })))
+  const roomId = await makeRoom(
+    live.running.dataSource,
+    users.slice(0, n).map((u, i) => ({ userId: u.id, role: i === 0 ? ('owner' as const) : ('editor' as const) })),
+  )
   const docs = users.slice(0, n).map((u) => connectDoc(live.url, roomId, u.cookie))
   clients.push(...docs)
   await Promise.all(docs.map((d) => d.synced))
@@ -63,7 +75,11 @@ describe('offline client', () => {
     movePoint(b.doc, outerId(b.doc), 'b3', { z: 0.62 })
     // b's later edit has reached the server: the relay works, so a's edit would be there by now
     // had it left the offline client.
-    await until(() => frameJson(live.realtime.rooms.peek(roomId)!.doc).includes('0.62'), 10_000, "b's edit on the server")
+    await until(
+      () => frameJson(live.realtime.rooms.peek(roomId)!.doc).includes('0.62'),
+      10_000,
+      "b's edit on the server",
+    )
     expect(frameJson(live.realtime.rooms.peek(roomId)!.doc)).not.toContain('0.31')
     expect(frameJson(b.doc)).not.toContain('0.31')
     a.provider.connect()
@@ -75,34 +91,40 @@ describe('offline client', () => {
 })
 
 describe('seeded random edits with random disconnects', () => {
-  it.each([20261202, 7])('seed %i: all four clients and the server end equal', async (seed) => {
-    const random = mulberry32(seed)
-    const { roomId, docs } = await openRoom(4)
-    const pick = <T>(xs: T[]): T => xs[Math.floor(random() * xs.length)]!
-    for (let step = 0; step < 160; step++) {
-      const c = pick(docs)
-      const roll = random()
-      if (roll < 0.08) {
-        if (c.provider.shouldConnect) c.provider.disconnect()
-        else c.provider.connect()
-        continue
+  it.each([20261202, 7])(
+    'seed %i: all four clients and the server end equal',
+    async (seed) => {
+      const random = mulberry32(seed)
+      const { roomId, docs } = await openRoom(4)
+      const pick = <T>(xs: T[]): T => xs[Math.floor(random() * xs.length)]!
+      for (let step = 0; step < 160; step++) {
+        const c = pick(docs)
+        const roll = random()
+        if (roll < 0.08) {
+          if (c.provider.shouldConnect) c.provider.disconnect()
+          else c.provider.connect()
+          continue
+        }
+        const ids = pointIds(c.doc)
+        const loop = outerId(c.doc)
+        if (roll < 0.6) movePoint(c.doc, loop, pick(ids), { x: random() * 10, y: random() * 10, z: random() * 3 })
+        else if (roll < 0.85 || ids.length <= 4)
+          insertPointAfter(c.doc, loop, pick(ids), { x: random() * 10, y: random() * 10, z: random() })
+        else deletePoint(c.doc, loop, pick(ids))
+        // Let sockets breathe now and then, so edits interleave with relays rather than all at once.
+        if (step % 10 === 0) await new Promise((r) => setTimeout(r, 20))
       }
-      const ids = pointIds(c.doc)
-      const loop = outerId(c.doc)
-      if (roll < 0.6) movePoint(c.doc, loop, pick(ids), { x: random() * 10, y: random() * 10, z: random() * 3 })
-      else if (roll < 0.85 || ids.length <= 4) insertPointAfter(c.doc, loop, pick(ids), { x: random() * 10, y: random() * 10, z: random() })
-      else deletePoint(c.doc, loop, pick(ids))
-      // Let sockets breathe now and then, so edits interleave with relays rather than all at once.
-      if (step % 10 === 0) await new Promise((r) => setTimeout(r, 20))
-    }
-    for (const d of docs) if (!d.provider.shouldConnect) d.provider.connect()
-    // If every client happened to be offline at once the room was freed; it loads again on reconnect.
-    const loaded = () => live.realtime.rooms.peek(roomId)
-    const server = () => loaded()!.doc
-    const same = () => loaded() !== undefined && docs.every((d) => d.provider.synced && frameJson(d.doc) === frameJson(server()))
-    await until(same, 20_000, 'convergence')
-    const ids = pointIds(server())
-    expect(new Set(ids).size).toBe(ids.length)
-    for (const d of docs) expect(Y.encodeStateVector(d.doc)).toEqual(Y.encodeStateVector(server()))
-  }, 60_000)
+      for (const d of docs) if (!d.provider.shouldConnect) d.provider.connect()
+      // If every client happened to be offline at once the room was freed; it loads again on reconnect.
+      const loaded = () => live.realtime.rooms.peek(roomId)
+      const server = () => loaded()!.doc
+      const same = () =>
+        loaded() !== undefined && docs.every((d) => d.provider.synced && frameJson(d.doc) === frameJson(server()))
+      await until(same, 20_000, 'convergence')
+      const ids = pointIds(server())
+      expect(new Set(ids).size).toBe(ids.length)
+      for (const d of docs) expect(Y.encodeStateVector(d.doc)).toEqual(Y.encodeStateVector(server()))
+    },
+    60_000,
+  )
 })

@@ -29,13 +29,17 @@ afterAll(async () => {
 
 const frameJson = (doc: Y.Doc) => JSON.stringify(readRawFrame(doc))
 const outerId = (doc: Y.Doc) => loopsOf(doc).get(0).get('id') as string
-const pointIds = (doc: Y.Doc) => (readRawFrame(doc) as { loops: { points: { id: string }[] }[] }).loops.flatMap((l) => l.points.map((p) => p.id))
+const pointIds = (doc: Y.Doc) =>
+  (readRawFrame(doc) as { loops: { points: { id: string }[] }[] }).loops.flatMap((l) => l.points.map((p) => p.id))
 
 describe('kill -9 and restart', () => {
   it('keeps every relayed edit, reconnects the clients and converges without duplicates', async () => {
     const a = await makeUser(ds, 'Crasher')
     const b = await makeUser(ds, 'Witness')
-    const roomId = await makeRoom(ds, [{ userId: a.id, role: 'owner' }, { userId: b.id, role: 'editor' }])
+    const roomId = await makeRoom(ds, [
+      { userId: a.id, role: 'owner' },
+      { userId: b.id, role: 'editor' },
+    ])
     server = await startChild(testEnv())
     const cookieA = await signIn(server.url, a.email)
     const cookieB = await signIn(server.url, b.email)
@@ -48,7 +52,12 @@ describe('kill -9 and restart', () => {
     let after = 'b2'
     for (let i = 0; i < 12; i++) {
       const writer = i % 2 ? docB : docA
-      if (i % 3 === 0) after = insertPointAfter(writer.doc, outerId(writer.doc), after, { x: 3 + i * 0.01, y: -0.5 - i * 0.1, z: 0.1 * i })!
+      if (i % 3 === 0)
+        after = insertPointAfter(writer.doc, outerId(writer.doc), after, {
+          x: 3 + i * 0.01,
+          y: -0.5 - i * 0.1,
+          z: 0.1 * i,
+        })!
       else movePoint(writer.doc, outerId(writer.doc), 'b1', { z: 0.05 * i })
       await until(() => frameJson(docA.doc) === frameJson(docB.doc), 5000, `edit ${i} relayed`)
     }
@@ -70,7 +79,14 @@ describe('kill -9 and restart', () => {
     await until(() => docA.provider.wsconnected && docB.provider.wsconnected, 20_000, 'old clients reconnected')
     movePoint(docA.doc, outerId(docA.doc), 'b3', { z: 1.5 })
     movePoint(docC.doc, outerId(docC.doc), 'b4', { z: -0.5 })
-    await until(() => frameJson(docA.doc) === frameJson(docB.doc) && frameJson(docB.doc) === frameJson(docC.doc) && frameJson(docC.doc).includes('1.5'), 10_000, 'convergence after restart')
+    await until(
+      () =>
+        frameJson(docA.doc) === frameJson(docB.doc) &&
+        frameJson(docB.doc) === frameJson(docC.doc) &&
+        frameJson(docC.doc).includes('1.5'),
+      10_000,
+      'convergence after restart',
+    )
     expect(pointIds(docA.doc).sort()).toEqual(ids.sort())
   }, 120_000)
 })

@@ -34,7 +34,11 @@ const outerId = (doc: Y.Doc) => loopsOf(doc).get(0).get('id') as string
 async function post(url: string, path: string, cookie: string, body: unknown) {
   const csrf = await fetch(`${url}/api/auth/csrf`, { headers: { cookie } })
   const token = csrf.ok ? ((await csrf.json()) as { token: string }).token : ''
-  const res = await fetch(url + path, { method: 'POST', headers: { cookie, 'x-csrf-token': token, 'content-type': 'application/json' }, body: JSON.stringify(body) })
+  const res = await fetch(url + path, {
+    method: 'POST',
+    headers: { cookie, 'x-csrf-token': token, 'content-type': 'application/json' },
+    body: JSON.stringify(body),
+  })
   const text = await res.text()
   return { status: res.status, body: text ? JSON.parse(text) : null }
 }
@@ -44,7 +48,10 @@ describe('MariaDB restart under live clients', () => {
     const ds = await createDataSource(loadConfig(db.env)).initialize()
     const a = await makeUser(ds, 'Ada')
     const b = await makeUser(ds, 'Bo')
-    const roomId = await makeRoom(ds, [{ userId: a.id, role: 'owner' }, { userId: b.id, role: 'editor' }])
+    const roomId = await makeRoom(ds, [
+      { userId: a.id, role: 'owner' },
+      { userId: b.id, role: 'editor' },
+    ])
     await ds.destroy()
     server = await startChild(db.env)
     const cookieA = await signIn(server.url, a.email)

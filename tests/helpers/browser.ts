@@ -27,7 +27,9 @@ export const CHROMIUM_ARGS = [
  * Headless chromium with a fresh profile in a temporary folder, so no cookie or cache survives
  * between runs. Background networking is off: a test sees only the requests the app makes.
  */
-export async function launchBrowser(options: { viewport?: { width: number; height: number } } = {}): Promise<LaunchedBrowser> {
+export async function launchBrowser(
+  options: { viewport?: { width: number; height: number } } = {},
+): Promise<LaunchedBrowser> {
   const profile = await mkdtemp(join(tmpdir(), 'veilroom-chromium-'))
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: CHROMIUM_PATH,
@@ -53,6 +55,9 @@ export async function launchBrowser(options: { viewport?: { width: number; heigh
  */
 export function baseUrl(): string {
   const url = [process.env.VEILROOM_BASE_URL, process.env.BASE_URL].find((u) => u && /^https?:\/\//.test(u))
-  if (!url) throw new Error('BASE_URL is not set to http(s)://…: browser tests need a running Veilroom server (npm test starts one)')
+  if (!url)
+    throw new Error(
+      'BASE_URL is not set to http(s)://…: browser tests need a running Veilroom server (npm test starts one)',
+    )
   return url.replace(/\/$/, '')
 }

@@ -16,9 +16,17 @@ const roomyLimits = {
  * (DB_PORT 3308, DB_NAME veilroom_test_<time>). Refuses any other database, so a test can never
  * write into development data. `env` overrides variables for this server (e.g. the abuse limits).
  */
-export async function startTestServer(options: Pick<StartOptions, 'tuning' | 'live'> & { env?: Record<string, string> } = {}): Promise<Running> {
+export async function startTestServer(
+  options: Pick<StartOptions, 'tuning' | 'live'> & { env?: Record<string, string> } = {},
+): Promise<Running> {
   const { env = {}, ...startOptions } = options
-  const config = loadConfig({ ...process.env, ...roomyLimits, NODE_ENV: 'test', LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn', ...env })
+  const config = loadConfig({
+    ...process.env,
+    ...roomyLimits,
+    NODE_ENV: 'test',
+    LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+    ...env,
+  })
   if (!config.DB_NAME.startsWith('veilroom_test_')) {
     throw new Error(`DB_NAME=${config.DB_NAME} is not a test database; run tests with \`npm test\` (see DEVELOPERS.md)`)
   }
@@ -49,13 +57,22 @@ export class ApiClient {
     return this.cookies.get(name)
   }
 
-  async request<T = any>(method: string, path: string, body?: unknown, opts: { csrf?: boolean } = {}): Promise<ApiReply<T>> {
+  async request<T = any>(
+    method: string,
+    path: string,
+    body?: unknown,
+    opts: { csrf?: boolean } = {},
+  ): Promise<ApiReply<T>> {
     const headers: Record<string, string> = {}
     if (body !== undefined) headers['content-type'] = 'application/json'
     const unsafe = !['GET', 'HEAD', 'OPTIONS'].includes(method)
     if (unsafe && opts.csrf !== false) headers['x-csrf-token'] = await this.token()
     if (this.cookies.size) headers.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
-    const res = await fetch(this.baseUrl + path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+    const res = await fetch(this.baseUrl + path, {
+      method,
+      headers,
+      body: body === undefined ? undefined : JSON.stringify(body),
+    })
     for (const line of res.headers.getSetCookie()) {
       const [pair] = line.split(';')
       const eq = pair?.indexOf('=') ?? -1

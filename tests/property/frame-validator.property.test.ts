@@ -9,9 +9,25 @@ import { describe, expect, it } from 'vitest'
 import { FrameError, parseFrameJson } from '../../shared/frame/index.js'
 
 const codes = new Set([
-  'invalid-json', 'invalid-field', 'not-finite', 'unknown-edge-kind', 'too-few-points', 'repeated-point', 'duplicate-id',
-  'degenerate-loop', 'self-crossing', 'hole-outside', 'loops-crossing', 'spatial-frame', 'outer-loop-count', 'cable-tension',
-  'prestress', 'edge-length', 'too-many-points', 'mesh-too-fine', 'csv-syntax',
+  'invalid-json',
+  'invalid-field',
+  'not-finite',
+  'unknown-edge-kind',
+  'too-few-points',
+  'repeated-point',
+  'duplicate-id',
+  'degenerate-loop',
+  'self-crossing',
+  'hole-outside',
+  'loops-crossing',
+  'spatial-frame',
+  'outer-loop-count',
+  'cable-tension',
+  'prestress',
+  'edge-length',
+  'too-many-points',
+  'mesh-too-fine',
+  'csv-syntax',
 ])
 
 // Mostly plausible numbers, sometimes the values that break geometry code.
@@ -20,7 +36,10 @@ const num = fc.oneof(
   { weight: 1, arbitrary: fc.constantFrom(Number.NaN, Infinity, -Infinity, 0, -0, 1e308, 5e-324) },
   { weight: 1, arbitrary: fc.oneof(fc.string({ maxLength: 4 }), fc.constant(null), fc.boolean()) },
 )
-const point = fc.record({ id: fc.option(fc.string({ minLength: 1, maxLength: 3 }), { nil: undefined }), x: num, y: num, z: num }, { requiredKeys: ['x', 'y', 'z'] })
+const point = fc.record(
+  { id: fc.option(fc.string({ minLength: 1, maxLength: 3 }), { nil: undefined }), x: num, y: num, z: num },
+  { requiredKeys: ['x', 'y', 'z'] },
+)
 const edge = fc.oneof(
   fc.record({ kind: fc.constant('rigid') }),
   fc.record({ kind: fc.constant('cable'), tension: num }),
@@ -28,7 +47,10 @@ const edge = fc.oneof(
 )
 const loop = fc.record(
   {
-    role: fc.oneof({ weight: 6, arbitrary: fc.constantFrom('outer', 'hole') }, { weight: 1, arbitrary: fc.string({ maxLength: 5 }) }),
+    role: fc.oneof(
+      { weight: 6, arbitrary: fc.constantFrom('outer', 'hole') },
+      { weight: 1, arbitrary: fc.string({ maxLength: 5 }) },
+    ),
     points: fc.array(point, { maxLength: 9 }),
     edges: fc.array(edge, { maxLength: 9 }),
   },
@@ -51,11 +73,18 @@ const nearValid = fc
     radii: fc.array(fc.double({ min: 1, max: 6, noNaN: true }), { minLength: 3, maxLength: 9 }),
     z: fc.double({ min: -3, max: 3, noNaN: true }),
     cable: fc.boolean(),
-    corrupt: fc.option(fc.record({ index: fc.nat(8), key: fc.constantFrom('x', 'y', 'z'), value: num }), { nil: null, freq: 2 }),
+    corrupt: fc.option(fc.record({ index: fc.nat(8), key: fc.constantFrom('x', 'y', 'z'), value: num }), {
+      nil: null,
+      freq: 2,
+    }),
   })
   .map(({ radii, z, cable, corrupt }) => {
     const n = radii.length
-    const points: Record<string, unknown>[] = radii.map((r, i) => ({ x: r * Math.cos((2 * Math.PI * i) / n), y: r * Math.sin((2 * Math.PI * i) / n), z: i % 2 ? z : 0 }))
+    const points: Record<string, unknown>[] = radii.map((r, i) => ({
+      x: r * Math.cos((2 * Math.PI * i) / n),
+      y: r * Math.sin((2 * Math.PI * i) / n),
+      z: i % 2 ? z : 0,
+    }))
     if (corrupt) points[corrupt.index % n]![corrupt.key] = corrupt.value
     const edges = points.map(() => (cable ? { kind: 'cable', tension: 20 } : { kind: 'rigid' }))
     return { format: 'veilroom-frame', mesh: { edgeLength: 0.5 }, loops: [{ role: 'outer', points, edges }] }
@@ -78,7 +107,8 @@ function readOrRefuse(input: unknown): void {
     expect(frame.loops.length).toBeGreaterThan(0)
     expect(allFinite(frame)).toBe(true)
   } catch (err) {
-    if (!(err instanceof FrameError)) throw new Error(`not a FrameError: ${String(err)} for ${JSON.stringify(input)}`, { cause: err })
+    if (!(err instanceof FrameError))
+      throw new Error(`not a FrameError: ${String(err)} for ${JSON.stringify(input)}`, { cause: err })
     seen.refusals++
     expect(codes.has(err.code)).toBe(true)
     expect(err.field.length).toBeGreaterThan(0)

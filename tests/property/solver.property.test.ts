@@ -47,10 +47,27 @@ describe('solver on random valid small frames', () => {
     fc.assert(
       fc.property(star, ({ radii, heights, cables, tension, prestress, ring, h, cx }) => {
         const n = radii.length
-        const outer = radii.map((r, i) => ({ x: cx + r * Math.cos((2 * Math.PI * i) / n), y: r * Math.sin((2 * Math.PI * i) / n), z: heights[i]! }))
-        const loops: unknown[] = [{ role: 'outer', points: outer, edges: outer.map((_, i) => (cables[i] ? { kind: 'cable', tension } : { kind: 'rigid' })) }]
+        const outer = radii.map((r, i) => ({
+          x: cx + r * Math.cos((2 * Math.PI * i) / n),
+          y: r * Math.sin((2 * Math.PI * i) / n),
+          z: heights[i]!,
+        }))
+        const loops: unknown[] = [
+          {
+            role: 'outer',
+            points: outer,
+            edges: outer.map((_, i) => (cables[i] ? { kind: 'cable', tension } : { kind: 'rigid' })),
+          },
+        ]
         if (ring !== null) {
-          loops.push({ role: 'hole', points: Array.from({ length: 6 }, (_, i) => ({ x: cx + 0.6 * Math.cos((-2 * Math.PI * i) / 6), y: 0.6 * Math.sin((-2 * Math.PI * i) / 6), z: ring })) })
+          loops.push({
+            role: 'hole',
+            points: Array.from({ length: 6 }, (_, i) => ({
+              x: cx + 0.6 * Math.cos((-2 * Math.PI * i) / 6),
+              y: 0.6 * Math.sin((-2 * Math.PI * i) / 6),
+              z: ring,
+            })),
+          })
         }
         let frame
         try {

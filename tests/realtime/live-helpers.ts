@@ -44,7 +44,8 @@ export async function makeUser(ds: DataSource, name: string): Promise<{ id: stri
 export async function makeRoom(ds: DataSource, members: { userId: string; role: RoomRole }[]): Promise<string> {
   const id = randomUUID()
   await ds.getRepository(RoomEntity).insert({ id, name: `Live test ${id.slice(0, 8)}`, description: '' })
-  for (const m of members) await ds.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId: id, userId: m.userId, role: m.role })
+  for (const m of members)
+    await ds.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId: id, userId: m.userId, role: m.role })
   return id
 }
 
@@ -68,7 +69,10 @@ function cookieOf(res: Response): string {
 }
 
 /** A WebSocket class for y-websocket that sends our cookie and Origin. */
-export function cookieSocket(cookie: string, origin: string): new (address: string | URL, protocols?: string | string[]) => WebSocket {
+export function cookieSocket(
+  cookie: string,
+  origin: string,
+): new (address: string | URL, protocols?: string | string[]) => WebSocket {
   return class extends WebSocket {
     constructor(address: string | URL, protocols?: string | string[]) {
       super(address, protocols, { headers: { cookie, origin } })
@@ -107,7 +111,12 @@ export function connectDoc(url: string, roomId: string, cookie: string): DocClie
 
 /** A socket.io client of the surface stream, signed in through the cookie. */
 export function connectStream(url: string, cookie: string): Socket {
-  return ioClient(url, { transports: ['websocket'], extraHeaders: { cookie, origin: url }, forceNew: true, reconnection: false })
+  return ioClient(url, {
+    transports: ['websocket'],
+    extraHeaders: { cookie, origin: url },
+    forceNew: true,
+    reconnection: false,
+  })
 }
 
 /** Polls `check` until it is true (or fails after `ms`). */

@@ -48,7 +48,9 @@ async function edit(docs: RoomDocs, roomId: string, replica: Y.Doc, n: number): 
 }
 
 const rowCount = async (roomId: string) =>
-  Number(((await ds.query('SELECT COUNT(*) AS n FROM room_updates WHERE room_id = ?', [roomId])) as { n: string }[])[0]!.n)
+  Number(
+    ((await ds.query('SELECT COUNT(*) AS n FROM room_updates WHERE room_id = ?', [roomId])) as { n: string }[])[0]!.n,
+  )
 
 describe('RoomDocs persistence', () => {
   it('stores an update before relaying it to peers', async () => {
@@ -95,14 +97,20 @@ describe('RoomDocs persistence', () => {
     const room = await docs.acquire(roomId)
     const base = room.version
     await edit(docs, roomId, replicaOf(room.doc), 12)
-    const [stored] = (await ds.query('SELECT version, state FROM room_documents WHERE room_id = ?', [roomId])) as { version: number; state: Buffer }[]
+    const [stored] = (await ds.query('SELECT version, state FROM room_documents WHERE room_id = ?', [roomId])) as {
+      version: number
+      state: Buffer
+    }[]
     // The seed was compacted when ensureRoomFrame let go; then compactions after edits 5 and 10.
     expect(Number(stored!.version)).toBe(base + 10)
     expect(await rowCount(roomId)).toBe(2)
     await docs.release(room)
     // The last release compacts everything: no rows left, state equals the server's doc.
     expect(await rowCount(roomId)).toBe(0)
-    const [final] = (await ds.query('SELECT version, state FROM room_documents WHERE room_id = ?', [roomId])) as { version: number; state: Buffer }[]
+    const [final] = (await ds.query('SELECT version, state FROM room_documents WHERE room_id = ?', [roomId])) as {
+      version: number
+      state: Buffer
+    }[]
     expect(Number(final!.version)).toBe(base + 12)
     const check = new Y.Doc()
     Y.applyUpdate(check, final!.state)
@@ -129,7 +137,9 @@ describe('RoomDocs persistence', () => {
     const room = await docs.acquire(roomId)
     expect(JSON.stringify(readRawFrame(room.doc))).toContain('"b1"')
     await docs.release(room)
-    const [stored] = (await ds.query('SELECT version FROM room_documents WHERE room_id = ?', [roomId])) as { version: number }[]
+    const [stored] = (await ds.query('SELECT version FROM room_documents WHERE room_id = ?', [roomId])) as {
+      version: number
+    }[]
     expect(Number(stored!.version)).toBe(1)
     await docs.close()
   })

@@ -33,7 +33,8 @@ describe('SolvePool', () => {
     expect(fromPool.vertices.length).toBe(local.mesh.vertices.length)
     expect(Array.from(fromPool.triangles)).toEqual(Array.from(local.mesh.triangles))
     let worst = 0
-    for (let i = 0; i < local.mesh.vertices.length; i++) worst = Math.max(worst, Math.abs(fromPool.vertices[i]! - local.mesh.vertices[i]!))
+    for (let i = 0; i < local.mesh.vertices.length; i++)
+      worst = Math.max(worst, Math.abs(fromPool.vertices[i]! - local.mesh.vertices[i]!))
     // float32 keeps ~7 significant digits: for coordinates ≤ 6 m, rounding is below 1e-6 m.
     expect(worst).toBeLessThan(1e-6)
     expect(fromPool.solver.converged).toBe(true)

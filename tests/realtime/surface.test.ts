@@ -9,7 +9,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { movePoint, setSettings } from '../../shared/room-doc/edits.js'
 import { loopsOf } from '../../shared/room-doc/schema.js'
-import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type DocClient, type Live } from './live-helpers.js'
+import {
+  connectDoc,
+  connectStream,
+  makeRoom,
+  makeUser,
+  signIn,
+  startLive,
+  until,
+  type DocClient,
+  type Live,
+} from './live-helpers.js'
 
 interface SurfaceEvent {
   roomId: string
@@ -46,7 +56,12 @@ function listen(socket: Socket) {
   const surfaces: SurfaceEvent[] = []
   const states: StateEvent[] = []
   socket.on('surface', (s: SurfaceEvent) =>
-    surfaces.push({ ...s, stateVector: typed(Uint8Array, s.stateVector), vertices: typed(Float32Array, s.vertices), triangles: typed(Uint32Array, s.triangles) }),
+    surfaces.push({
+      ...s,
+      stateVector: typed(Uint8Array, s.stateVector),
+      vertices: typed(Float32Array, s.vertices),
+      triangles: typed(Uint32Array, s.triangles),
+    }),
   )
   socket.on('solve:state', (s: StateEvent) => states.push(s))
   return { surfaces, states }
@@ -73,7 +88,12 @@ const outer = (doc: Y.Doc) => loopsOf(doc).get(0).get('id') as string
 
 function hasVertexNear(vertices: Float32Array, x: number, y: number, z: number, tol = 1e-4): boolean {
   for (let i = 0; i < vertices.length; i += 3) {
-    if (Math.abs(vertices[i]! - x) < tol && Math.abs(vertices[i + 1]! - y) < tol && Math.abs(vertices[i + 2]! - z) < tol) return true
+    if (
+      Math.abs(vertices[i]! - x) < tol &&
+      Math.abs(vertices[i + 1]! - y) < tol &&
+      Math.abs(vertices[i + 2]! - z) < tol
+    )
+      return true
   }
   return false
 }
@@ -110,7 +130,8 @@ describe('surface stream', () => {
 
     movePoint(editor.doc, outer(editor.doc), 'b3', { z: 1.2 })
     const clock = Y.decodeStateVector(Y.encodeStateVector(editor.doc)).get(editor.doc.clientID)!
-    const includesEdit = (s: SurfaceEvent) => (Y.decodeStateVector(s.stateVector).get(editor.doc.clientID) ?? 0) >= clock && !s.coarse
+    const includesEdit = (s: SurfaceEvent) =>
+      (Y.decodeStateVector(s.stateVector).get(editor.doc.clientID) ?? 0) >= clock && !s.coarse
     await until(() => watcher.surfaces.some(includesEdit), 60_000, 'surface with the edit')
     const surface = watcher.surfaces.find(includesEdit)!
     expect(surface.roomId).toBe(roomId)
@@ -124,7 +145,11 @@ describe('surface stream', () => {
     expect(surface.figures.area).toBeGreaterThan(36)
     expect(surface.figures.area).toBeLessThan(36 * 1.1)
     // the solve of this version ends, and a small smooth edit of a flat square must settle
-    await until(() => watcher.states.some((s) => s.version === surface.version && s.state !== 'settling'), 5000, 'final state')
+    await until(
+      () => watcher.states.some((s) => s.version === surface.version && s.state !== 'settling'),
+      5000,
+      'final state',
+    )
     const final = watcher.states.find((s) => s.version === surface.version && s.state !== 'settling')!
     expect([final.state, final.reason]).toEqual(['settled', undefined])
     expect(surface.solver.converged).toBe(true)
@@ -140,7 +165,11 @@ describe('surface stream', () => {
     expect(refused.field).toMatch(/loops\[0\]\.points\[2\]\.z/)
     expect(refused.message).toBeTruthy()
     movePoint(editor.doc, outer(editor.doc), 'b3', { z: 0.5 })
-    await until(() => watcher.surfaces.some((s) => hasVertexNear(s.vertices, 6, 6, 0.5)), 60_000, 'surface after the fix')
+    await until(
+      () => watcher.surfaces.some((s) => hasVertexNear(s.vertices, 6, 6, 0.5)),
+      60_000,
+      'surface after the fix',
+    )
   }, 150_000)
 
   it('sends a coarse preview before the fine surface of a large mesh without warm state', async () => {
@@ -150,7 +179,11 @@ describe('surface stream', () => {
     setSettings(editor.doc, { edgeLength: 0.05 })
     movePoint(editor.doc, outer(editor.doc), 'b1', { z: 0.8 })
     const watcher = await join(owner.cookie, roomId)
-    await until(() => watcher.surfaces.some((s) => !s.coarse && s.vertices.length / 3 > 10_000), 110_000, 'fine surface')
+    await until(
+      () => watcher.surfaces.some((s) => !s.coarse && s.vertices.length / 3 > 10_000),
+      110_000,
+      'fine surface',
+    )
     const fine = watcher.surfaces.findIndex((s) => !s.coarse && s.vertices.length / 3 > 10_000)
     const coarse = watcher.surfaces.findIndex((s) => s.coarse)
     expect(coarse).toBeGreaterThanOrEqual(0)

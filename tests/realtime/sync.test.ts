@@ -66,7 +66,12 @@ describe('two editors converge', () => {
     const b = await open(roomId, editor.cookie)
     movePoint(a.doc, outerId(a.doc), 's1', { z: 1.11 })
     movePoint(b.doc, outerId(b.doc), 's3', { x: 8.22 })
-    await until(() => frameJson(a.doc) === frameJson(b.doc) && frameJson(a.doc).includes('1.11') && frameJson(a.doc).includes('8.22'), 5000, 'convergence')
+    await until(
+      () =>
+        frameJson(a.doc) === frameJson(b.doc) && frameJson(a.doc).includes('1.11') && frameJson(a.doc).includes('8.22'),
+      5000,
+      'convergence',
+    )
     const server = live.realtime.rooms.peek(roomId)!
     await until(() => frameJson(server.doc) === frameJson(a.doc), 5000, 'server doc')
   })
@@ -77,7 +82,11 @@ describe('two editors converge', () => {
     const b = await open(roomId, editor.cookie)
     const idA = insertPointAfter(a.doc, outerId(a.doc), 's1', { x: 4, y: -0.5, z: 1.9 })!
     const idB = insertPointAfter(b.doc, outerId(b.doc), 's1', { x: 4, y: 0.5, z: 1.8 })!
-    await until(() => frameJson(a.doc) === frameJson(b.doc) && !!findPoint(a.doc, outerId(a.doc), idB), 5000, 'both inserts')
+    await until(
+      () => frameJson(a.doc) === frameJson(b.doc) && !!findPoint(a.doc, outerId(a.doc), idB),
+      5000,
+      'both inserts',
+    )
     expect(findPoint(b.doc, outerId(b.doc), idA)).toBeDefined()
     expect(loopsOf(a.doc).get(0).get('points')).toHaveProperty('length', 6)
   })
@@ -150,7 +159,9 @@ describe('bad input', () => {
     const b1 = await open(roomB, owner.cookie)
     const b2 = await open(roomB, editor.cookie)
     const closed = await new Promise<number>((resolve) => {
-      const ws = new WebSocket(live.url.replace(/^http/, 'ws') + `/sync/${roomA}`, { headers: { origin: live.url, cookie: owner.cookie } })
+      const ws = new WebSocket(live.url.replace(/^http/, 'ws') + `/sync/${roomA}`, {
+        headers: { origin: live.url, cookie: owner.cookie },
+      })
       ws.on('error', () => undefined)
       ws.on('open', () => ws.send(Buffer.from([0, 2, 0xff, 0xff, 0xff, 0xff, 0x0f, 1, 2, 3])))
       ws.on('close', (code) => resolve(code))
@@ -182,7 +193,9 @@ describe('presence', () => {
     encoding.writeVarUint8Array(spoof, encoding.toUint8Array(update))
     const query = encoding.createEncoder()
     encoding.writeVarUint(query, 3) // query awareness: answered after the spoof was handled
-    const ws = new WebSocket(live.url.replace(/^http/, 'ws') + `/sync/${roomId}`, { headers: { origin: live.url, cookie: editor.cookie } })
+    const ws = new WebSocket(live.url.replace(/^http/, 'ws') + `/sync/${roomId}`, {
+      headers: { origin: live.url, cookie: editor.cookie },
+    })
     ws.on('error', () => undefined)
     let awarenessReplies = 0
     ws.on('message', (data: Buffer) => {

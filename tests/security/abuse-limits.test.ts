@@ -32,7 +32,10 @@ async function member(name: string): Promise<ApiClient> {
   return c
 }
 
-const expectLimited = (reply: { status: number; body: { error?: { code: string; message: string } } }, what: RegExp) => {
+const expectLimited = (
+  reply: { status: number; body: { error?: { code: string; message: string } } },
+  what: RegExp,
+) => {
   expect(reply.status).toBe(429)
   expect(reply.body.error?.code).toBe('rate_limited')
   expect(reply.body.error?.message).toMatch(what)
@@ -41,11 +44,25 @@ const expectLimited = (reply: { status: number; body: { error?: { code: string; 
 describe('abuse limits', () => {
   it(`allows ${LIMIT} sign-ups per address per hour, then 429 (refused ones count too)`, async () => {
     const taken = uniqueEmail('first')
-    expect((await tw.client().post('/api/auth/signup', { email: taken, name: 'First', password: 'long-enough-pass' })).status).toBe(201)
+    expect(
+      (await tw.client().post('/api/auth/signup', { email: taken, name: 'First', password: 'long-enough-pass' }))
+        .status,
+    ).toBe(201)
     // A probe for an existing address (409) counts: otherwise sign-up would enumerate accounts freely.
-    expect((await tw.client().post('/api/auth/signup', { email: taken, name: 'Again', password: 'long-enough-pass' })).status).toBe(409)
-    expect((await tw.client().post('/api/auth/signup', { email: uniqueEmail('third'), name: 'Third', password: 'long-enough-pass' })).status).toBe(201)
-    const over = await tw.client().post('/api/auth/signup', { email: uniqueEmail('fourth'), name: 'Fourth', password: 'long-enough-pass' })
+    expect(
+      (await tw.client().post('/api/auth/signup', { email: taken, name: 'Again', password: 'long-enough-pass' }))
+        .status,
+    ).toBe(409)
+    expect(
+      (
+        await tw
+          .client()
+          .post('/api/auth/signup', { email: uniqueEmail('third'), name: 'Third', password: 'long-enough-pass' })
+      ).status,
+    ).toBe(201)
+    const over = await tw
+      .client()
+      .post('/api/auth/signup', { email: uniqueEmail('fourth'), name: 'Fourth', password: 'long-enough-pass' })
     expectLimited(over, /sign-ups/)
     expect(over.headers.get('ratelimit-policy') ?? over.headers.get('ratelimit')).toBeTruthy()
   })
@@ -68,7 +85,10 @@ describe('abuse limits', () => {
       expect((await owner.post(`/api/rooms/${rooms[i % 2]}/invites`, { email: to, role: 'viewer' })).status).toBe(201)
       await mailTo(tw, to, seen)
     }
-    expectLimited(await owner.post(`/api/rooms/${rooms[1]}/invites`, { email: uniqueEmail('late'), role: 'viewer' }), /invites/)
+    expectLimited(
+      await owner.post(`/api/rooms/${rooms[1]}/invites`, { email: uniqueEmail('late'), role: 'viewer' }),
+      /invites/,
+    )
   })
 
   // Last: it leaves this address unable to sign in for the window.
@@ -79,7 +99,13 @@ describe('abuse limits', () => {
       const u = await makeUser(tw.server.dataSource, `Sprayed${i}`)
       expect((await tw.client().post('/api/auth/signin', { email: u.email, password: 'Summer2026!' })).status).toBe(401)
     }
-    expectLimited(await tw.client().post('/api/auth/signin', { email: victim.email, password: 'Summer2026!' }), /failed sign-ins from this address/)
-    expectLimited(await tw.client().post('/api/auth/signin', { email: uniqueEmail('nobody'), password: 'x' }), /failed sign-ins/)
+    expectLimited(
+      await tw.client().post('/api/auth/signin', { email: victim.email, password: 'Summer2026!' }),
+      /failed sign-ins from this address/,
+    )
+    expectLimited(
+      await tw.client().post('/api/auth/signin', { email: uniqueEmail('nobody'), password: 'x' }),
+      /failed sign-ins/,
+    )
   })
 })

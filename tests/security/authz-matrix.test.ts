@@ -106,8 +106,10 @@ function enumerateRoutes(app: Express): string[] {
   const out: string[] = []
   const walk = (stack: any[], prefix: string) => {
     for (const layer of stack) {
-      if (layer.route) for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`)
-      else if (Array.isArray(layer.handle?.stack)) walk(layer.handle.stack, prefix + (layer.rawPath === '/' ? '' : String(layer.rawPath)))
+      if (layer.route)
+        for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`)
+      else if (Array.isArray(layer.handle?.stack))
+        walk(layer.handle.stack, prefix + (layer.rawPath === '/' ? '' : String(layer.rawPath)))
     }
   }
   walk((app as any).router.stack, '')
@@ -145,7 +147,10 @@ afterAll(async () => {
 
 /** A room with one member per role (fresh per row, so a DELETE by the owner harms no other row). */
 const castRoom = () =>
-  makeRoom(live.running.dataSource, (['owner', 'editor', 'reviewer', 'viewer'] as const).map((role) => ({ userId: ids[role], role })))
+  makeRoom(
+    live.running.dataSource,
+    (['owner', 'editor', 'reviewer', 'viewer'] as const).map((role) => ({ userId: ids[role], role })),
+  )
 
 async function call(method: string, path: string, cookie: string): Promise<{ status: number; code?: string }> {
   const headers: Record<string, string> = { origin: live.url }
@@ -190,7 +195,8 @@ describe('HTTP routes × callers', () => {
     const want: Record<string, Outcome> = {}
     for (const who of callers) {
       // Sign-out would end the shared session: sign in afresh for that one call.
-      const cookie = route === 'POST /api/auth/signout' && who !== 'signedOut' ? await signIn(live.url, emails[who]) : cookies[who]
+      const cookie =
+        route === 'POST /api/auth/signout' && who !== 'signedOut' ? await signIn(live.url, emails[who]) : cookies[who]
       const reply = await call(method, concretePath(pattern, roomId), cookie)
       got[who] = outcomeOf(reply.status, reply.code)
       want[who] = expected(rule, who)
@@ -207,9 +213,13 @@ describe('socket.io events × callers', () => {
   it('lists every event the server listens to on a client socket', async () => {
     const socket = connectStream(live.url, cookies.owner)
     try {
-      await new Promise<void>((resolve, reject) => (socket.once('connect', () => resolve()), socket.once('connect_error', reject)))
+      await new Promise<void>(
+        (resolve, reject) => (socket.once('connect', () => resolve()), socket.once('connect_error', reject)),
+      )
       await waitFor(() => listened.size > 0, 5000, 'server-side listeners')
-      expect([...listened].filter((n) => !['disconnect', 'disconnecting', 'error'].includes(n)).sort()).toEqual([...events].sort())
+      expect([...listened].filter((n) => !['disconnect', 'disconnecting', 'error'].includes(n)).sort()).toEqual(
+        [...events].sort(),
+      )
     } finally {
       socket.close()
     }
@@ -226,7 +236,11 @@ describe('socket.io events × callers', () => {
         socket.once('connect_error', (err) => resolve(err.message))
       })
       if (connected !== 'connected') return { join: `refused: ${connected}`, leave: 'refused' }
-      const ack = (await socket.timeout(10_000).emitWithAck('room:join', { roomId })) as { ok: boolean; role?: string; error?: { code: string } }
+      const ack = (await socket.timeout(10_000).emitWithAck('room:join', { roomId })) as {
+        ok: boolean
+        role?: string
+        error?: { code: string }
+      }
       // A round trip on the same connection: its answer is queued after anything the server sent or
       // processed before it, so "nothing arrived" is a fact once it is back (no sleeping and hoping).
       const roundTrip = () => socket.timeout(10_000).emitWithAck('room:join', { roomId: 'not-a-room' })
@@ -275,9 +289,22 @@ describe('sync message types × callers', () => {
       const first = () => (loopsOf(peer.doc).get(0).get('points') as Y.Array<Y.Map<number>>).get(0)
       const tagA = Math.round(Math.random() * 1e6) / 1e3 + 100
       const tagB = tagA + 1
-      peer.send(syncMessage(1, editUpdate(peer.doc, () => first().set('z', tagA))))
-      peer.send(syncMessage(2, editUpdate(peer.doc, () => first().set('x', tagB))))
-      const { bytes, clientId } = awarenessMessage({ user: { id: ids[who as RoomRole], name: who, color: '#888' }, held: null })
+      peer.send(
+        syncMessage(
+          1,
+          editUpdate(peer.doc, () => first().set('z', tagA)),
+        ),
+      )
+      peer.send(
+        syncMessage(
+          2,
+          editUpdate(peer.doc, () => first().set('x', tagB)),
+        ),
+      )
+      const { bytes, clientId } = awarenessMessage({
+        user: { id: ids[who as RoomRole], name: who, color: '#888' },
+        held: null,
+      })
       peer.send(bytes)
       // One socket's messages are handled in order: once the awareness is in, the edits were handled.
       await waitFor(() => server.awareness.getStates().has(clientId), 5000, 'awareness')
@@ -301,6 +328,13 @@ describe('sync message types × callers', () => {
     for (const who of callers) got[who] = await probe(who, roomId)
     const writer = { step1: 'answered', step2: 'applied', update: 'applied', awareness: 'applied' }
     const reader = { step1: 'answered', step2: 'dropped', update: 'dropped', awareness: 'applied' }
-    expect(got).toEqual({ signedOut: { upgrade: 401 }, outsider: { upgrade: 404 }, viewer: reader, reviewer: reader, editor: writer, owner: writer })
+    expect(got).toEqual({
+      signedOut: { upgrade: 401 },
+      outsider: { upgrade: 404 },
+      viewer: reader,
+      reviewer: reader,
+      editor: writer,
+      owner: writer,
+    })
   })
 })

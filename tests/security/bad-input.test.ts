@@ -34,13 +34,18 @@ async function csrf(): Promise<string> {
 }
 
 // The logger writes one JSON-escaped line: a stack shows as "\n    at …" inside it.
-const noTraces = () => expect(logged.filter((l) => /(\\n|\n)\s+at |request failed|upgrade failed|URIError|RangeError/.test(l))).toEqual([])
+const noTraces = () =>
+  expect(logged.filter((l) => /(\\n|\n)\s+at |request failed|upgrade failed|URIError|RangeError/.test(l))).toEqual([])
 
 describe('malformed percent-encoding', () => {
   const bad = ['%E0%A4%A', '%ZZ', '%', '%C3', '%FF%FE']
 
   it.each(bad)('GET /api/rooms/%s… answers 400 bad_url, signed in or not', async (segment) => {
-    for (const path of [`/api/rooms/${segment}`, `/api/rooms/${segment}/members`, `/api/rooms/${roomId}/snapshots/${segment}`]) {
+    for (const path of [
+      `/api/rooms/${segment}`,
+      `/api/rooms/${segment}/members`,
+      `/api/rooms/${roomId}/snapshots/${segment}`,
+    ]) {
       for (const headers of [{ cookie }, {}] as Record<string, string>[]) {
         const res = await fetch(live.url + path, { headers })
         const body = (await res.json()) as { error: { code: string; message: string } }
@@ -59,18 +64,21 @@ describe('malformed percent-encoding', () => {
 })
 
 describe('request bodies', () => {
-  it.each(['latin1', 'iso-8859-1', 'shift_jis', 'utf-9'])('JSON in charset %s → 400 unsupported_charset', async (charset) => {
-    const res = await fetch(`${live.url}/api/auth/signin`, {
-      method: 'POST',
-      headers: { cookie, 'x-csrf-token': await csrf(), 'content-type': `application/json; charset=${charset}` },
-      body: JSON.stringify({ email: 'a@b.test', password: 'x' }),
-    })
-    const body = (await res.json()) as { error: { code: string; message: string } }
-    expect([res.status, body.error.code]).toEqual([400, 'unsupported_charset'])
-    expect(body.error.message).toContain(`"${charset}"`)
-    expect(body.error.message).toMatch(/UTF-8/)
-    noTraces()
-  })
+  it.each(['latin1', 'iso-8859-1', 'shift_jis', 'utf-9'])(
+    'JSON in charset %s → 400 unsupported_charset',
+    async (charset) => {
+      const res = await fetch(`${live.url}/api/auth/signin`, {
+        method: 'POST',
+        headers: { cookie, 'x-csrf-token': await csrf(), 'content-type': `application/json; charset=${charset}` },
+        body: JSON.stringify({ email: 'a@b.test', password: 'x' }),
+      })
+      const body = (await res.json()) as { error: { code: string; message: string } }
+      expect([res.status, body.error.code]).toEqual([400, 'unsupported_charset'])
+      expect(body.error.message).toContain(`"${charset}"`)
+      expect(body.error.message).toMatch(/UTF-8/)
+      noTraces()
+    },
+  )
 
   it('a deeply nested array as the sign-in e-mail → 400 naming the field, and the server carries on', async () => {
     const depth = 200_000

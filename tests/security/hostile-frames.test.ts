@@ -12,7 +12,17 @@ import * as Y from 'yjs'
 import { MAX_ESTIMATED_VERTICES, MAX_FRAME_POINTS } from '../../shared/frame/index.js'
 import { frameMap, loopsOf, makeLoop, writeFrame } from '../../shared/room-doc/schema.js'
 import { starterFrame } from '../../shared/room-doc/starters.js'
-import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type DocClient, type Live } from '../realtime/live-helpers.js'
+import {
+  connectDoc,
+  connectStream,
+  makeRoom,
+  makeUser,
+  signIn,
+  startLive,
+  until,
+  type DocClient,
+  type Live,
+} from '../realtime/live-helpers.js'
 
 interface StateEvent {
   version: number
@@ -48,13 +58,38 @@ afterAll(async () => {
 })
 
 const point = (i: number) => (loopsOf(editor.doc).get(0).get('points') as Y.Array<Y.Map<unknown>>).get(i)
-const circle = (n: number, r: number) => Array.from({ length: n }, (_, i) => ({ x: r * Math.cos((2 * Math.PI * i) / n), y: r * Math.sin((2 * Math.PI * i) / n), z: 0 }))
+const circle = (n: number, r: number) =>
+  Array.from({ length: n }, (_, i) => ({
+    x: r * Math.cos((2 * Math.PI * i) / n),
+    y: r * Math.sin((2 * Math.PI * i) / n),
+    z: 0,
+  }))
 
 const cases: { name: string; edit: () => void; field: RegExp; reason: RegExp }[] = [
-  { name: 'NaN height', edit: () => point(2).set('z', Number.NaN), field: /^loops\[0\]\.points\[2\]\.z$/, reason: /finite/ },
-  { name: 'Infinity prestress', edit: () => (frameMap(editor.doc).get('prestress') as Y.Map<number>).set('warp', Infinity), field: /^prestress\.warp$/, reason: /finite/ },
-  { name: '-Infinity plan coordinate', edit: () => point(1).set('x', -Infinity), field: /^loops\[0\]\.points\[1\]\.x$/, reason: /finite/ },
-  { name: 'a string for a number', edit: () => point(0).set('y', 'north'), field: /^loops\[0\]\.points\[0\]\.y$/, reason: /number/ },
+  {
+    name: 'NaN height',
+    edit: () => point(2).set('z', Number.NaN),
+    field: /^loops\[0\]\.points\[2\]\.z$/,
+    reason: /finite/,
+  },
+  {
+    name: 'Infinity prestress',
+    edit: () => (frameMap(editor.doc).get('prestress') as Y.Map<number>).set('warp', Infinity),
+    field: /^prestress\.warp$/,
+    reason: /finite/,
+  },
+  {
+    name: '-Infinity plan coordinate',
+    edit: () => point(1).set('x', -Infinity),
+    field: /^loops\[0\]\.points\[1\]\.x$/,
+    reason: /finite/,
+  },
+  {
+    name: 'a string for a number',
+    edit: () => point(0).set('y', 'north'),
+    field: /^loops\[0\]\.points\[0\]\.y$/,
+    reason: /number/,
+  },
   {
     name: 'a self-crossing loop (bow tie)',
     edit: () => (point(2).set('x', 0), point(3).set('x', 6)),
@@ -85,22 +120,40 @@ const cases: { name: string; edit: () => void; field: RegExp; reason: RegExp }[]
 ]
 
 describe('bad frames in the shared document', () => {
-  it.each(cases)('$name → unsettled invalid-frame naming the field; fixed → settles again', async ({ edit, field, reason }) => {
-    editor.doc.transact(edit)
-    const server = live.realtime.rooms.peek(roomId)!
-    await until(() => server.version > 0 && JSON.stringify(frameMap(server.doc).toJSON()) === JSON.stringify(frameMap(editor.doc).toJSON()), 10_000, 'edit reached the server')
-    const version = server.version
-    await until(() => states.some((s) => s.version >= version && s.reason === 'invalid-frame'), 20_000, 'invalid-frame state')
-    const refused = states.find((s) => s.version >= version && s.reason === 'invalid-frame')!
-    expect(refused.state).toBe('unsettled')
-    expect(refused.field).toMatch(field)
-    expect(refused.message).toMatch(reason)
-    // The room is still alive: writing the blank frame back settles again.
-    writeFrame(editor.doc, starterFrame('blank'))
-    await until(() => server.version > version, 10_000, 'fix reached the server')
-    const fixed = server.version
-    await until(() => states.some((s) => s.version >= fixed && s.state === 'settled'), 60_000, 'settled after the fix')
-  }, 90_000)
+  it.each(cases)(
+    '$name → unsettled invalid-frame naming the field; fixed → settles again',
+    async ({ edit, field, reason }) => {
+      editor.doc.transact(edit)
+      const server = live.realtime.rooms.peek(roomId)!
+      await until(
+        () =>
+          server.version > 0 &&
+          JSON.stringify(frameMap(server.doc).toJSON()) === JSON.stringify(frameMap(editor.doc).toJSON()),
+        10_000,
+        'edit reached the server',
+      )
+      const version = server.version
+      await until(
+        () => states.some((s) => s.version >= version && s.reason === 'invalid-frame'),
+        20_000,
+        'invalid-frame state',
+      )
+      const refused = states.find((s) => s.version >= version && s.reason === 'invalid-frame')!
+      expect(refused.state).toBe('unsettled')
+      expect(refused.field).toMatch(field)
+      expect(refused.message).toMatch(reason)
+      // The room is still alive: writing the blank frame back settles again.
+      writeFrame(editor.doc, starterFrame('blank'))
+      await until(() => server.version > version, 10_000, 'fix reached the server')
+      const fixed = server.version
+      await until(
+        () => states.some((s) => s.version >= fixed && s.state === 'settled'),
+        60_000,
+        'settled after the fix',
+      )
+    },
+    90_000,
+  )
 })
 
 async function importFile(name: string, content: string) {
@@ -108,8 +161,15 @@ async function importFile(name: string, content: string) {
   const token = ((await csrf.json()) as { token: string }).token
   const form = new FormData()
   form.append('file', new Blob([content]), name)
-  const res = await fetch(`${live.url}/api/rooms/${roomId}/frame/import`, { method: 'POST', body: form, headers: { cookie, 'x-csrf-token': token } })
-  return { status: res.status, body: (await res.json()) as { error?: { code: string; message: string; field?: string } } }
+  const res = await fetch(`${live.url}/api/rooms/${roomId}/frame/import`, {
+    method: 'POST',
+    body: form,
+    headers: { cookie, 'x-csrf-token': token },
+  })
+  return {
+    status: res.status,
+    body: (await res.json()) as { error?: { code: string; message: string; field?: string } },
+  }
 }
 
 describe('bad frame files on import', () => {
@@ -120,7 +180,16 @@ describe('bad frame files on import', () => {
     ['too many points', json(circle(MAX_FRAME_POINTS + 1, 10)), /^loops\[0\]\.points$/],
     // JSON.parse reads 1e999 as Infinity.
     ['a height of 1e999', json(circle(4, 3)).replace('"z":0', '"z":1e999'), /^loops\[0\]\.points\[0\]\.z$/],
-    ['a self-crossing loop', json([{ x: 0, y: 0, z: 0 }, { x: 6, y: 0, z: 0 }, { x: 0, y: 6, z: 0 }, { x: 6, y: 6, z: 0 }]), /^loops\[0\]\.edges\[\d\]$/],
+    [
+      'a self-crossing loop',
+      json([
+        { x: 0, y: 0, z: 0 },
+        { x: 6, y: 0, z: 0 },
+        { x: 0, y: 6, z: 0 },
+        { x: 6, y: 6, z: 0 },
+      ]),
+      /^loops\[0\]\.edges\[\d\]$/,
+    ],
     ['a mesh too fine', json(circle(4, 3), ',"mesh":{"edgeLength":0.0001}'), /^mesh\.edgeLength$/],
   ])('answers 400 invalid_frame for %s, naming the field', async (_name, content, field) => {
     const reply = await importFile('frame.json', content)

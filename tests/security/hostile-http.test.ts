@@ -31,7 +31,11 @@ async function csrf(): Promise<string> {
 describe('oversized bodies', () => {
   it('answers 413 too_large to a JSON body over 1 MB', async () => {
     const body = JSON.stringify({ name: 'x'.repeat(1024 * 1024 + 10) })
-    const res = await fetch(`${live.url}/api/rooms`, { method: 'POST', body, headers: { cookie, 'x-csrf-token': await csrf(), 'content-type': 'application/json' } })
+    const res = await fetch(`${live.url}/api/rooms`, {
+      method: 'POST',
+      body,
+      headers: { cookie, 'x-csrf-token': await csrf(), 'content-type': 'application/json' },
+    })
     expect(res.status).toBe(413)
     expect(((await res.json()) as { error: { code: string } }).error.code).toBe('too_large')
   })
@@ -39,7 +43,11 @@ describe('oversized bodies', () => {
   it('answers 413 too_large naming the field to an underlay image over 4 MB', async () => {
     const form = new FormData()
     form.append('image', new Blob([new Uint8Array(4 * 1024 * 1024 + 1)]), 'huge.png')
-    const res = await fetch(`${live.url}/api/rooms/${roomId}/underlay`, { method: 'PUT', body: form, headers: { cookie, 'x-csrf-token': await csrf() } })
+    const res = await fetch(`${live.url}/api/rooms/${roomId}/underlay`, {
+      method: 'PUT',
+      body: form,
+      headers: { cookie, 'x-csrf-token': await csrf() },
+    })
     expect(res.status).toBe(413)
     expect(await res.json()).toMatchObject({ error: { code: 'too_large', field: 'image' } })
   })
@@ -50,18 +58,20 @@ describe('slow uploads', () => {
     const token = await csrf()
     const url = new URL(live.url)
     const stalled = await Promise.all(
-      Array.from({ length: 20 }, () =>
-        new Promise<ReturnType<typeof connect>>((resolve) => {
-          const socket = connect(Number(url.port), url.hostname, () => {
-            socket.write(
-              `POST /api/rooms/${roomId}/frame/import HTTP/1.1\r\nHost: ${url.host}\r\nCookie: ${cookie}\r\nX-CSRF-Token: ${token}\r\n` +
-                'Content-Type: multipart/form-data; boundary=XyZ\r\nContent-Length: 900000\r\n\r\n' +
-                '--XyZ\r\nContent-Disposition: form-data; name="file"; filename="f.json"\r\n\r\n{"loops":[',
-            )
-            resolve(socket)
-          })
-          socket.on('error', () => undefined)
-        }),
+      Array.from(
+        { length: 20 },
+        () =>
+          new Promise<ReturnType<typeof connect>>((resolve) => {
+            const socket = connect(Number(url.port), url.hostname, () => {
+              socket.write(
+                `POST /api/rooms/${roomId}/frame/import HTTP/1.1\r\nHost: ${url.host}\r\nCookie: ${cookie}\r\nX-CSRF-Token: ${token}\r\n` +
+                  'Content-Type: multipart/form-data; boundary=XyZ\r\nContent-Length: 900000\r\n\r\n' +
+                  '--XyZ\r\nContent-Disposition: form-data; name="file"; filename="f.json"\r\n\r\n{"loops":[',
+              )
+              resolve(socket)
+            })
+            socket.on('error', () => undefined)
+          }),
       ),
     )
     try {

@@ -11,7 +11,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
-import { connectDoc, makeRoom, makeUser, signIn, startLive, type DocClient, type Live } from '../realtime/live-helpers.js'
+import {
+  connectDoc,
+  makeRoom,
+  makeUser,
+  signIn,
+  startLive,
+  type DocClient,
+  type Live,
+} from '../realtime/live-helpers.js'
 import { editUpdate, openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
 
 let live: Live
@@ -124,7 +132,11 @@ describe('malformed sync messages', () => {
     expect(update[0]).toBe(0)
     peer.send(syncMessage(2, update))
     const server = live.realtime.rooms.peek(roomId)!
-    await waitFor(() => (loopsOf(server.doc).get(0).get('points') as Y.Array<unknown>).length === count - 1, 5000, 'deletion applied')
+    await waitFor(
+      () => (loopsOf(server.doc).get(0).get('points') as Y.Array<unknown>).length === count - 1,
+      5000,
+      'deletion applied',
+    )
   })
 })
 

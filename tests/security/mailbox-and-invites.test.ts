@@ -7,7 +7,14 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, uniqueEmail } from '../helpers/test-server.js'
-import { mailIds, mailTo, roomWithCast, startTeamworkServer, type RoomCast, type TeamworkServer } from '../server/teamwork-helpers.js'
+import {
+  mailIds,
+  mailTo,
+  roomWithCast,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from '../server/teamwork-helpers.js'
 
 let tw: TeamworkServer
 let cast: RoomCast
@@ -47,7 +54,11 @@ describe('dev mailbox (item 2)', () => {
 
     // The owner sent it, an outsider is nosy: neither sees it, with or without the old ?to= filter.
     for (const c of [cast.clients.owner, cast.clients.outsider]) {
-      for (const path of ['/api/dev/mailbox', `/api/dev/mailbox?to=${encodeURIComponent(guest)}`, '/api/dev/mailbox?limit=500']) {
+      for (const path of [
+        '/api/dev/mailbox',
+        `/api/dev/mailbox?to=${encodeURIComponent(guest)}`,
+        '/api/dev/mailbox?limit=500',
+      ]) {
         const reply = await c.get(path)
         expect(reply.status).toBe(200)
         expect(JSON.stringify(reply.body)).not.toContain(token)

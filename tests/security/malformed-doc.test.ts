@@ -77,11 +77,30 @@ async function settledAgain(roomId: string, after: number): Promise<void> {
 
 const cases: { name: string; path: string; edit: (doc: Y.Doc) => void }[] = [
   { name: '`loops` replaced by a number', path: 'loops', edit: (doc) => frameMap(doc).set('loops', 7) },
-  { name: 'a string where a loop should be', path: 'loops[1]', edit: (doc) => (loopsOf(doc) as unknown as Y.Array<unknown>).push(['not a loop']) },
+  {
+    name: 'a string where a loop should be',
+    path: 'loops[1]',
+    edit: (doc) => (loopsOf(doc) as unknown as Y.Array<unknown>).push(['not a loop']),
+  },
   { name: 'a number where a point should be', path: 'loops[0].points[2]', edit: (doc) => points(doc).insert(2, [42]) },
-  { name: 'a plain object where a point map should be', path: 'loops[0].points[0]', edit: (doc) => points(doc).insert(0, [{ id: 'q', x: 1, y: 1, z: 0 }]) },
-  { name: 'a list where a point map should be', path: 'loops[0].points[1]', edit: (doc) => points(doc).insert(1, [new Y.Array()]) },
-  { name: 'points as a map instead of a list', path: 'loops[0].points', edit: (doc) => loopsOf(doc).get(0).set('points', new Y.Map() as never) },
+  {
+    name: 'a plain object where a point map should be',
+    path: 'loops[0].points[0]',
+    edit: (doc) => points(doc).insert(0, [{ id: 'q', x: 1, y: 1, z: 0 }]),
+  },
+  {
+    name: 'a list where a point map should be',
+    path: 'loops[0].points[1]',
+    edit: (doc) => points(doc).insert(1, [new Y.Array()]),
+  },
+  {
+    name: 'points as a map instead of a list',
+    path: 'loops[0].points',
+    edit: (doc) =>
+      loopsOf(doc)
+        .get(0)
+        .set('points', new Y.Map() as never),
+  },
   { name: 'prestress as a string', path: 'prestress', edit: (doc) => frameMap(doc).set('prestress', 'tight') },
   { name: 'mesh as text', path: 'mesh', edit: (doc) => frameMap(doc).set('mesh', new Y.Text('fine')) },
 ]
@@ -145,7 +164,11 @@ describe('malformed room documents (issue 12 item 1)', () => {
     await again.synced
     const reopened = states.length
     await watcher.timeout(10_000).emitWithAck('room:join', { roomId })
-    await until(() => states.slice(reopened).some((s) => s.roomId === roomId && s.reason === 'invalid-frame'), 15_000, 'invalid-frame on reopen')
+    await until(
+      () => states.slice(reopened).some((s) => s.roomId === roomId && s.reason === 'invalid-frame'),
+      15_000,
+      'invalid-frame on reopen',
+    )
     const broken = live.realtime.rooms.peek(roomId)!.version
     writeFrame(again.doc, starterFrame('blank'), ORIGIN)
     await settledAgain(roomId, broken)

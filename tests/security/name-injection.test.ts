@@ -13,7 +13,16 @@ import { csvText, tableToCsv } from '../../shared/export/figures-csv.js'
 import { solveFrame } from '../../shared/engine.js'
 import { parseFrameJson } from '../../shared/frame/index.js'
 import { uniqueEmail } from '../helpers/test-server.js'
-import { download, engineLive, mailIds, mailTo, roomWithCast, startTeamworkServer, type RoomCast, type TeamworkServer } from '../server/teamwork-helpers.js'
+import {
+  download,
+  engineLive,
+  mailIds,
+  mailTo,
+  roomWithCast,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from '../server/teamwork-helpers.js'
 
 const engine = engineLive((f) => solveFrame(f))
 let tw: TeamworkServer
@@ -42,33 +51,47 @@ const hostileNames = [
 ]
 
 describe('names refuse control characters at validation', () => {
-  it.each(hostileNames.map((name) => [JSON.stringify(name), name]))('room name %s → 400 naming the field', async (_label, name) => {
-    const created = await cast.clients.owner.post('/api/rooms', { name })
-    expect(created.status).toBe(400)
-    expect(created.body.error).toMatchObject({ code: 'invalid_input', field: 'name' })
-    expect(created.body.error.message).toMatch(/^name: (no line breaks|contains a broken character)/)
-    const renamed = await cast.clients.owner.patch(room(), { name })
-    expect(renamed.status).toBe(400)
-    expect(renamed.body.error.field).toBe('name')
-  })
+  it.each(hostileNames.map((name) => [JSON.stringify(name), name]))(
+    'room name %s → 400 naming the field',
+    async (_label, name) => {
+      const created = await cast.clients.owner.post('/api/rooms', { name })
+      expect(created.status).toBe(400)
+      expect(created.body.error).toMatchObject({ code: 'invalid_input', field: 'name' })
+      expect(created.body.error.message).toMatch(/^name: (no line breaks|contains a broken character)/)
+      const renamed = await cast.clients.owner.patch(room(), { name })
+      expect(renamed.status).toBe(400)
+      expect(renamed.body.error.field).toBe('name')
+    },
+  )
 
   it('refuses them in snapshot names, person names, and NUL in descriptions, notes and comments', async () => {
     for (const name of hostileNames) {
       const snap = await cast.clients.editor.post(`${room()}/snapshots`, { name })
       expect([snap.status, snap.body.error?.field]).toEqual([400, 'name'])
-      const person = await tw.client().post('/api/auth/signup', { email: uniqueEmail('named'), name, password: 'long-enough-pass' })
+      const person = await tw
+        .client()
+        .post('/api/auth/signup', { email: uniqueEmail('named'), name, password: 'long-enough-pass' })
       expect([person.status, person.body.error?.field]).toEqual([400, 'name'])
     }
     const description = await cast.clients.owner.patch(room(), { description: 'two\u0000parts' })
     expect([description.status, description.body.error?.field]).toEqual([400, 'description'])
     const note = await cast.clients.editor.post(`${room()}/snapshots`, { name: 'Fine', note: 'a\u0000b' })
     expect([note.status, note.body.error?.field]).toEqual([400, 'note'])
-    const pin = await cast.clients.reviewer.post(`${room()}/pins`, { x: 0, y: 0, z: 0, docVersion: 0, body: 'look \ud800' })
+    const pin = await cast.clients.reviewer.post(`${room()}/pins`, {
+      x: 0,
+      y: 0,
+      z: 0,
+      docVersion: 0,
+      body: 'look \ud800',
+    })
     expect([pin.status, pin.body.error?.field]).toEqual([400, 'body'])
   })
 
   it('keeps line breaks where text has lines (descriptions) and accepts ordinary names', async () => {
-    const ok = await cast.clients.owner.patch(room(), { description: 'Line one\nline two\r\n\tindented', name: 'Market hall sail — Süd (v2) = draft' })
+    const ok = await cast.clients.owner.patch(room(), {
+      description: 'Line one\nline two\r\n\tindented',
+      name: 'Market hall sail — Süd (v2) = draft',
+    })
     expect(ok.status).toBe(200)
     expect(ok.body.room.name).toBe('Market hall sail — Süd (v2) = draft')
   })
@@ -123,7 +146,15 @@ describe('CSV cells (OWASP CSV Injection: = + - @ tab CR lead a formula)', () =>
     expect(csvText('\r=1')).toBe('"\'\r=1"')
     expect(csvText('=HYPERLINK("http://x","y")')).toBe('"\'=HYPERLINK(""http://x"",""y"")"')
     expect(csvText('area')).toBe('area')
-    const table = { key: 't', title: 'T', columns: [{ label: 'what' }, { label: 'z', unit: 'm' }], rows: [['-1 below', -0.25], ['=A1', 1]] }
+    const table = {
+      key: 't',
+      title: 'T',
+      columns: [{ label: 'what' }, { label: 'z', unit: 'm' }],
+      rows: [
+        ['-1 below', -0.25],
+        ['=A1', 1],
+      ],
+    }
     expect(tableToCsv(table)).toEqual(['# T', 'what,z (m)', "'-1 below,-0.25", "'=A1,1.00"])
   })
 })

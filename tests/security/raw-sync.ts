@@ -23,9 +23,17 @@ export interface RawPeer {
 }
 
 /** Resolves with the HTTP status of a refused upgrade, or 101 and the open peer. */
-export function openRaw(url: string, roomId: string, headers: Record<string, string>, options: { maxPayload?: number } = {}): Promise<{ status: number; peer?: RawPeer }> {
+export function openRaw(
+  url: string,
+  roomId: string,
+  headers: Record<string, string>,
+  options: { maxPayload?: number } = {},
+): Promise<{ status: number; peer?: RawPeer }> {
   return new Promise((resolve) => {
-    const ws = new WebSocket(url.replace(/^http/, 'ws') + `/sync/${roomId}`, { headers, maxPayload: options.maxPayload })
+    const ws = new WebSocket(url.replace(/^http/, 'ws') + `/sync/${roomId}`, {
+      headers,
+      maxPayload: options.maxPayload,
+    })
     const doc = new Y.Doc()
     const syncSeen: number[] = []
     const closed = new Promise<{ code: number }>((r) => ws.on('close', (code) => r({ code })))

@@ -14,7 +14,16 @@ import { MembershipEntity } from '../../server/db/entities/index.js'
 import { movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import { ApiClient } from '../helpers/test-server.js'
-import { connectDoc, connectStream, makeUser, signIn, startLive, until, type DocClient, type Live } from '../realtime/live-helpers.js'
+import {
+  connectDoc,
+  connectStream,
+  makeUser,
+  signIn,
+  startLive,
+  until,
+  type DocClient,
+  type Live,
+} from '../realtime/live-helpers.js'
 import { editUpdate, openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
 
 let live: Live
@@ -34,11 +43,18 @@ afterAll(async () => {
 })
 
 /** A room of the owner's with an editor, the owner's document open (it keeps the room loaded). */
-async function roomWithEditor(): Promise<{ roomId: string; editorId: string; editorCookie: string; ownerDoc: DocClient }> {
+async function roomWithEditor(): Promise<{
+  roomId: string
+  editorId: string
+  editorCookie: string
+  ownerDoc: DocClient
+}> {
   const created = await owner.post('/api/rooms', { name: `Revoke ${randomUUID().slice(0, 6)}`, starter: 'blank' })
   const roomId = created.body.room.id as string
   const editor = await makeUser(live.running.dataSource, 'Editor')
-  await live.running.dataSource.getRepository(MembershipEntity).insert({ id: randomUUID(), roomId, userId: editor.id, role: 'editor' })
+  await live.running.dataSource
+    .getRepository(MembershipEntity)
+    .insert({ id: randomUUID(), roomId, userId: editor.id, role: 'editor' })
   const ownerDoc = connectDoc(live.url, roomId, ownerCookie)
   open.push(ownerDoc)
   await ownerDoc.synced
@@ -111,7 +127,9 @@ describe('revoked sockets (issue 12 items 4, 5, 6)', () => {
     stream.close()
     ownerDoc.destroy()
     await until(() => live.realtime.rooms.peek(roomId) === undefined, 10_000, 'the deleted room freed')
-    const rows = (await live.running.dataSource.query('SELECT COUNT(*) AS n FROM `room_updates` WHERE `room_id` = ?', [roomId])) as { n: number }[]
+    const rows = (await live.running.dataSource.query('SELECT COUNT(*) AS n FROM `room_updates` WHERE `room_id` = ?', [
+      roomId,
+    ])) as { n: number }[]
     expect(Number(rows[0]!.n)).toBe(0)
     expect((await owner.get('/api/health')).status).toBe(200)
   })

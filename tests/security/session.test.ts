@@ -7,7 +7,16 @@
  * CSRF token of the signed-out session does not work in the next one.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type Live } from '../realtime/live-helpers.js'
+import {
+  connectDoc,
+  connectStream,
+  makeRoom,
+  makeUser,
+  signIn,
+  startLive,
+  until,
+  type Live,
+} from '../realtime/live-helpers.js'
 
 let live: Live
 
@@ -24,11 +33,15 @@ async function csrfFor(cookie: string): Promise<string> {
 }
 
 async function signOut(cookie: string): Promise<number> {
-  const res = await fetch(`${live.url}/api/auth/signout`, { method: 'POST', headers: { cookie, 'x-csrf-token': await csrfFor(cookie) } })
+  const res = await fetch(`${live.url}/api/auth/signout`, {
+    method: 'POST',
+    headers: { cookie, 'x-csrf-token': await csrfFor(cookie) },
+  })
   return res.status
 }
 
-const me = async (cookie: string) => ((await (await fetch(`${live.url}/api/auth/me`, { headers: { cookie } })).json()) as { user: unknown }).user
+const me = async (cookie: string) =>
+  ((await (await fetch(`${live.url}/api/auth/me`, { headers: { cookie } })).json()) as { user: unknown }).user
 
 describe('sign-out', () => {
   it('kills the old session id: replaying the cookie is a signed-out request, also for sockets', async () => {

@@ -22,7 +22,14 @@ async function listen(bundle: AppBundle): Promise<{ url: string; close: () => Pr
   const http: Server = createServer(bundle.app)
   await new Promise<void>((r) => http.listen(0, '127.0.0.1', r))
   const url = `http://127.0.0.1:${(http.address() as AddressInfo).port}`
-  return { url, close: async () => { http.closeAllConnections(); await new Promise((r) => http.close(r)); await bundle.close() } }
+  return {
+    url,
+    close: async () => {
+      http.closeAllConnections()
+      await new Promise((r) => http.close(r))
+      await bundle.close()
+    },
+  }
 }
 
 describe('serving the built client', () => {

@@ -20,7 +20,11 @@ describe('sign-up, sign-in, sign-out', () => {
   it('signs up, is signed in at once, and never returns the password hash', async () => {
     const c = client()
     const email = uniqueEmail('signup')
-    const reply = await c.post('/api/auth/signup', { email: email.toUpperCase(), name: 'Ada Tensile', password: 'long-enough-pass' })
+    const reply = await c.post('/api/auth/signup', {
+      email: email.toUpperCase(),
+      name: 'Ada Tensile',
+      password: 'long-enough-pass',
+    })
     expect(reply.status).toBe(201)
     expect(reply.body.user).toEqual({ id: expect.any(String), email, name: 'Ada Tensile' })
     expect(JSON.stringify(reply.body)).not.toMatch(/hash|long-enough-pass/)
@@ -75,7 +79,12 @@ describe('CSRF protection (synchroniser token, OWASP CSRF Prevention Cheat Sheet
   it('refuses a state-changing request without the x-csrf-token header', async () => {
     const c = client()
     await c.get('/api/auth/csrf')
-    const reply = await c.request('POST', '/api/auth/signup', { email: uniqueEmail(), name: 'N', password: 'long-enough-pass' }, { csrf: false })
+    const reply = await c.request(
+      'POST',
+      '/api/auth/signup',
+      { email: uniqueEmail(), name: 'N', password: 'long-enough-pass' },
+      { csrf: false },
+    )
     expect(reply.status).toBe(403)
     expect(reply.body.error.code).toBe('csrf_invalid')
   })
@@ -134,7 +143,11 @@ describe('health and errors', () => {
     const token = (await c.get('/api/auth/csrf')).body.token as string
     const res = await fetch(server.url + '/api/auth/signin', {
       method: 'POST',
-      headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: `${SESSION_COOKIE}=${c.cookie(SESSION_COOKIE)}` },
+      headers: {
+        'content-type': 'application/json',
+        'x-csrf-token': token,
+        cookie: `${SESSION_COOKIE}=${c.cookie(SESSION_COOKIE)}`,
+      },
       body: '{"email":',
     })
     expect(res.status).toBe(400)

@@ -4,7 +4,14 @@ import { loadConfig } from '../../server/config.js'
 describe('configuration', () => {
   it('has working development defaults, bcrypt cost 12 included', () => {
     const c = loadConfig({})
-    expect(c).toMatchObject({ PORT: 3210, HOST: '127.0.0.1', DB_PORT: 3307, DB_NAME: 'veilroom', BCRYPT_COST: 12, NODE_ENV: 'development' })
+    expect(c).toMatchObject({
+      PORT: 3210,
+      HOST: '127.0.0.1',
+      DB_PORT: 3307,
+      DB_NAME: 'veilroom',
+      BCRYPT_COST: 12,
+      NODE_ENV: 'development',
+    })
     expect(c.SESSION_SECRET.length).toBeGreaterThanOrEqual(16)
   })
 

@@ -4,7 +4,15 @@ import { crc32, deflateSync } from 'node:zlib'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { solveFrame } from '../../shared/engine.js'
 import { parseFrameCsv, parseFrameJson } from '../../shared/frame/index.js'
-import { download, engineLive, roomWithCast, sendForm, startTeamworkServer, type RoomCast, type TeamworkServer } from './teamwork-helpers.js'
+import {
+  download,
+  engineLive,
+  roomWithCast,
+  sendForm,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from './teamwork-helpers.js'
 
 const example = (name: string) => readFileSync(resolve(import.meta.dirname, '../../examples', name), 'utf8')
 const fileForm = (name: string, content: string | Buffer, field = 'file', type = 'application/octet-stream') => {
@@ -29,13 +37,22 @@ function tinyPng(width = 3, height = 2): Buffer {
   ihdr.set([8, 2, 0, 0, 0], 8)
   const rows = Buffer.alloc(height * (1 + 3 * width), 0x7f)
   for (let r = 0; r < height; r++) rows[r * (1 + 3 * width)] = 0
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', deflateSync(rows)), chunk('IEND', Buffer.alloc(0))])
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', deflateSync(rows)),
+    chunk('IEND', Buffer.alloc(0)),
+  ])
 }
 
 /** JPEG markers per ITU T.81 B.2: SOI, APP0 (JFIF), SOF0 with height 480 and width 640, EOI. */
 function jpegHeader(): Buffer {
-  const app0 = [0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x49, 0x46, 0x00, 0x01, 0x01, 0x00, 0x00, 0x01, 0x00, 0x01, 0x00, 0x00]
-  const sof0 = [0xff, 0xc0, 0x00, 0x11, 0x08, 0x01, 0xe0, 0x02, 0x80, 0x03, 0x01, 0x22, 0x00, 0x02, 0x11, 0x01, 0x03, 0x11, 0x01]
+  const app0 = [
+    0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x49, 0x46, 0x00, 0x01, 0x01, 0x00, 0x00, 0x01, 0x00, 0x01, 0x00, 0x00,
+  ]
+  const sof0 = [
+    0xff, 0xc0, 0x00, 0x11, 0x08, 0x01, 0xe0, 0x02, 0x80, 0x03, 0x01, 0x22, 0x00, 0x02, 0x11, 0x01, 0x03, 0x11, 0x01,
+  ]
   return Buffer.from([0xff, 0xd8, ...app0, ...sof0, 0xff, 0xd9])
 }
 
@@ -60,7 +77,12 @@ const room = () => `/api/rooms/${cast.roomId}`
 
 describe('frame import', () => {
   it('reads the JSON and CSV examples with the shared parser', async () => {
-    const json = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('hypar-sail.json', example('hypar-sail.json')))
+    const json = await sendForm(
+      cast.clients.editor,
+      'POST',
+      `${room()}/frame/import`,
+      fileForm('hypar-sail.json', example('hypar-sail.json')),
+    )
     expect(json.status).toBe(200)
     expect(json.body.frame).toEqual(parseFrameJson(example('hypar-sail.json')))
     const form = fileForm('hypar-sail.csv', example('hypar-sail.csv'))
@@ -68,14 +90,20 @@ describe('frame import', () => {
     form.append('edgeLength', '0.5')
     const csv = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, form)
     expect(csv.status).toBe(200)
-    expect(csv.body.frame).toEqual(parseFrameCsv(example('hypar-sail.csv'), { prestress: { warp: 4, fill: 4 }, edgeLength: 0.5 }))
+    expect(csv.body.frame).toEqual(
+      parseFrameCsv(example('hypar-sail.csv'), { prestress: { warp: 4, fill: 4 }, edgeLength: 0.5 }),
+    )
   })
 
   it('names the field and the reason for bad files', async () => {
     const post = (form: FormData) => sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, form)
     const badJson = await post(fileForm('frame.json', '{ "loops": [ '))
     expect(badJson.status).toBe(400)
-    expect(badJson.body.error).toMatchObject({ code: 'invalid_frame', field: '(file)', message: expect.stringMatching(/not valid JSON/) })
+    expect(badJson.body.error).toMatchObject({
+      code: 'invalid_frame',
+      field: '(file)',
+      message: expect.stringMatching(/not valid JSON/),
+    })
 
     const text = JSON.parse(example('hypar-sail.json'))
     text.loops[0].points[2].z = 'high'
@@ -88,7 +116,19 @@ describe('frame import', () => {
     expect(badCsv.body.error.code).toBe('invalid_frame')
     expect(badCsv.body.error.field).toMatch(/^line 3\b/)
 
-    const crossing = { loops: [{ role: 'outer', points: [{ x: 0, y: 0, z: 0 }, { x: 4, y: 4, z: 0 }, { x: 4, y: 0, z: 0 }, { x: 0, y: 4, z: 0 }] }] }
+    const crossing = {
+      loops: [
+        {
+          role: 'outer',
+          points: [
+            { x: 0, y: 0, z: 0 },
+            { x: 4, y: 4, z: 0 },
+            { x: 4, y: 0, z: 0 },
+            { x: 0, y: 4, z: 0 },
+          ],
+        },
+      ],
+    }
     const selfCrossing = await post(fileForm('bow.json', JSON.stringify(crossing)))
     expect(selfCrossing.body.error.message).toMatch(/cross/i)
 
@@ -99,7 +139,12 @@ describe('frame import', () => {
   })
 
   it('refuses a file over 1 MB with 413', async () => {
-    const big = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('big.json', ' '.repeat(1024 * 1024 + 1)))
+    const big = await sendForm(
+      cast.clients.editor,
+      'POST',
+      `${room()}/frame/import`,
+      fileForm('big.json', ' '.repeat(1024 * 1024 + 1)),
+    )
     expect(big.status).toBe(413)
     expect(big.body.error).toMatchObject({ code: 'too_large', field: 'file' })
   })
@@ -110,7 +155,18 @@ describe('underlay image', () => {
     const png = tinyPng()
     const put = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(png))
     expect(put.status).toBe(200)
-    expect(put.body.underlay).toMatchObject({ mime: 'image/png', width: 3, height: 2, ax: 10, ay: 20, bx: 310, by: 420, distance: 25, originX: 5, originY: 6 })
+    expect(put.body.underlay).toMatchObject({
+      mime: 'image/png',
+      width: 3,
+      height: 2,
+      ax: 10,
+      ay: 20,
+      bx: 310,
+      by: 420,
+      distance: 25,
+      originX: 5,
+      originY: 6,
+    })
     // A and B are 500 px apart (a 3-4-5 triangle) and 25 m apart: 0.05 m per pixel.
     expect(put.body.underlay.metresPerPixel).toBeCloseTo(0.05, 12)
     const image = await download(cast.clients.viewer, `${room()}/underlay`)
@@ -118,7 +174,12 @@ describe('underlay image', () => {
     expect(image.bytes.equals(png)).toBe(true)
     expect((await cast.clients.viewer.get(`${room()}/underlay/meta`)).body.underlay.width).toBe(3)
 
-    const jpeg = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(jpegHeader(), 'plan.jpg'))
+    const jpeg = await sendForm(
+      cast.clients.editor,
+      'PUT',
+      `${room()}/underlay`,
+      underlayForm(jpegHeader(), 'plan.jpg'),
+    )
     expect(jpeg.body.underlay).toMatchObject({ mime: 'image/jpeg', width: 640, height: 480 })
 
     expect((await cast.clients.editor.delete(`${room()}/underlay`)).status).toBe(204)
@@ -143,9 +204,19 @@ describe('underlay image', () => {
     const big = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(huge))
     expect(big.status).toBe(413)
 
-    const same = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(tinyPng(), 'a.png', { ...scale, bx: '10', by: '20' }))
+    const same = await sendForm(
+      cast.clients.editor,
+      'PUT',
+      `${room()}/underlay`,
+      underlayForm(tinyPng(), 'a.png', { ...scale, bx: '10', by: '20' }),
+    )
     expect(same.body.error).toMatchObject({ code: 'invalid_input', field: 'bx' })
-    const noDistance = await sendForm(cast.clients.editor, 'PUT', `${room()}/underlay`, underlayForm(tinyPng(), 'a.png', { ...scale, distance: '-3' }))
+    const noDistance = await sendForm(
+      cast.clients.editor,
+      'PUT',
+      `${room()}/underlay`,
+      underlayForm(tinyPng(), 'a.png', { ...scale, distance: '-3' }),
+    )
     expect(noDistance.body.error.field).toBe('distance')
   })
 })
@@ -159,7 +230,12 @@ describe('downloads', () => {
     const disposition = json.headers.get('content-disposition') ?? ''
     expect(disposition).toMatch(/^attachment; filename="?Terrace-Cafe-shade-sail-Sud-frame\.json"?$/)
     expect(JSON.parse(json.bytes.toString()).caution).toMatch(/qualified engineer/)
-    const back = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('again.json', json.bytes))
+    const back = await sendForm(
+      cast.clients.editor,
+      'POST',
+      `${room()}/frame/import`,
+      fileForm('again.json', json.bytes),
+    )
     expect(back.body.frame).toEqual({ ...frame, mesh: { edgeLength: 0.5 } })
 
     const surface = (await engine.live.getLatestSurface())!
@@ -168,7 +244,9 @@ describe('downloads', () => {
     expect(obj.match(/^v /gm)).toHaveLength(surface.vertices.length / 3)
     expect(obj.match(/^f /gm)).toHaveLength(surface.triangles.length / 3)
     const stl = await download(cast.clients.viewer, `${room()}/surface.stl`)
-    expect(stl.bytes.toString().split('\n')[0]).toMatch(/^solid veilroom_surface Preliminary form-finding result: Form-finding results are preliminary/)
+    expect(stl.bytes.toString().split('\n')[0]).toMatch(
+      /^solid veilroom_surface Preliminary form-finding result: Form-finding results are preliminary/,
+    )
     expect(stl.bytes.toString().match(/facet normal/g)).toHaveLength(surface.triangles.length / 3)
     const csv = await download(cast.clients.viewer, `${room()}/figures.csv`)
     expect(csv.headers.get('content-type')).toMatch(/^text\/csv/)
@@ -178,29 +256,55 @@ describe('downloads', () => {
   it('figures.csv carries the report tables: frame points numbered as in the workbench, forces, open pins', async () => {
     const frame = parseFrameJson(example('hypar-sail.json'))
     engine.setFrame({ ...frame, mesh: { edgeLength: 0.5 } })
-    const pin = await cast.clients.reviewer.post(`${room()}/pins`, { x: 1, y: 2, z: 3, docVersion: 1, body: 'Corner plate, 12 mm?' })
+    const pin = await cast.clients.reviewer.post(`${room()}/pins`, {
+      x: 1,
+      y: 2,
+      z: 3,
+      docVersion: 1,
+      body: 'Corner plate, 12 mm?',
+    })
     expect(pin.status).toBe(201)
     const csv = (await download(cast.clients.viewer, `${room()}/figures.csv`)).bytes.toString()
-    const section = (title: string) => csv.split('\n\n').find((s) => s.startsWith(`# ${title}\n`))?.split('\n').filter((l) => !l.startsWith('#')) ?? []
+    const section = (title: string) =>
+      csv
+        .split('\n\n')
+        .find((s) => s.startsWith(`# ${title}\n`))
+        ?.split('\n')
+        .filter((l) => !l.startsWith('#')) ?? []
     const points = section('Frame points')
     expect(points).toHaveLength(1 + frame.loops[0]!.points.length)
     const p1 = frame.loops[0]!.points[0]!
-    expect(points[1]).toBe(`Outer P1,${p1.x.toFixed(3)},${p1.y.toFixed(3)},${p1.z.toFixed(3)},Outer E1 ${frame.loops[0]!.edges[0]!.kind}`)
+    expect(points[1]).toBe(
+      `Outer P1,${p1.x.toFixed(3)},${p1.y.toFixed(3)},${p1.z.toFixed(3)},Outer E1 ${frame.loops[0]!.edges[0]!.kind}`,
+    )
     expect(section('Forces at frame points (prestress state)')).toHaveLength(1 + frame.loops[0]!.points.length)
-    expect(section('Open pins')[1]).toMatch(/^1,1\.00,2\.00,3\.00,[^,]+,\d{4}-\d\d-\d\d \d\d:\d\d UTC,"Corner plate, 12 mm\?",$/)
+    expect(section('Open pins')[1]).toMatch(
+      /^1,1\.00,2\.00,3\.00,[^,]+,\d{4}-\d\d-\d\d \d\d:\d\d UTC,"Corner plate, 12 mm\?",$/,
+    )
   })
 
   it('exports a snapshot the same way, named after room and snapshot', async () => {
     const sail = parseFrameJson(example('hypar-sail.json'))
-    const frame = { ...sail, mesh: { edgeLength: 0.5 }, loops: [{ ...sail.loops[0]!, points: sail.loops[0]!.points.map((p, i) => (i === 1 ? { ...p, z: 4.25 } : p)) }] }
+    const frame = {
+      ...sail,
+      mesh: { edgeLength: 0.5 },
+      loops: [{ ...sail.loops[0]!, points: sail.loops[0]!.points.map((p, i) => (i === 1 ? { ...p, z: 4.25 } : p)) }],
+    }
     engine.setFrame(frame)
     const saved = await cast.clients.editor.post(`${room()}/snapshots`, { name: 'Tent v2 (mast 6 m)' })
     expect(saved.status).toBe(201)
     engine.setFrame(parseFrameJson(example('hypar-sail.json')), { settle: false })
     const base = `${room()}/snapshots/${saved.body.snapshot.id}`
     const json = await download(cast.clients.viewer, `${base}/frame.json`)
-    expect(json.headers.get('content-disposition')).toMatch(/filename="?Terrace-Cafe-shade-sail-Sud-Tent-v2-mast-6-m-frame\.json"?$/)
-    const back = await sendForm(cast.clients.editor, 'POST', `${room()}/frame/import`, fileForm('again.json', json.bytes))
+    expect(json.headers.get('content-disposition')).toMatch(
+      /filename="?Terrace-Cafe-shade-sail-Sud-Tent-v2-mast-6-m-frame\.json"?$/,
+    )
+    const back = await sendForm(
+      cast.clients.editor,
+      'POST',
+      `${room()}/frame/import`,
+      fileForm('again.json', json.bytes),
+    )
     expect(back.body.frame).toEqual(frame)
     const csv = (await download(cast.clients.viewer, `${base}/figures.csv`)).bytes.toString()
     expect(csv).toMatch(/snapshot "Tent v2 \(mast 6 m\)"/)

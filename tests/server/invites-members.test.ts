@@ -14,14 +14,25 @@ describe('member roles and the last-owner rule', () => {
     const { roomId, clients, ids } = await roomWithCast(tw)
     const demote = await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.owner}`, { role: 'editor' })
     expect(demote.status).toBe(409)
-    expect(demote.body.error).toMatchObject({ code: 'last_owner', message: expect.stringMatching(/at least one owner/) })
+    expect(demote.body.error).toMatchObject({
+      code: 'last_owner',
+      message: expect.stringMatching(/at least one owner/),
+    })
     expect((await clients.owner.delete(`/api/rooms/${roomId}/members/${ids.owner}`)).body.error.code).toBe('last_owner')
 
     // With a second owner, the first may step down; then they lose owner rights.
-    expect((await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.editor}`, { role: 'owner' })).body.member).toEqual({ userId: ids.editor, role: 'owner' })
-    expect((await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.owner}`, { role: 'editor' })).status).toBe(200)
-    expect((await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.viewer}`, { role: 'editor' })).status).toBe(403)
-    expect((await clients.editor.delete(`/api/rooms/${roomId}/members/${ids.editor}`)).body.error.code).toBe('last_owner')
+    expect(
+      (await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.editor}`, { role: 'owner' })).body.member,
+    ).toEqual({ userId: ids.editor, role: 'owner' })
+    expect((await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.owner}`, { role: 'editor' })).status).toBe(
+      200,
+    )
+    expect((await clients.owner.patch(`/api/rooms/${roomId}/members/${ids.viewer}`, { role: 'editor' })).status).toBe(
+      403,
+    )
+    expect((await clients.editor.delete(`/api/rooms/${roomId}/members/${ids.editor}`)).body.error.code).toBe(
+      'last_owner',
+    )
   })
 
   it('lets a member leave, closes their sockets, and stops others removing people', async () => {

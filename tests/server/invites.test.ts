@@ -2,7 +2,14 @@ import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { invitesService } from '../../server/modules/invites/invites-service.js'
 import { uniqueEmail } from '../helpers/test-server.js'
-import { mailIds, mailTo, roomWithCast, startTeamworkServer, type RoomCast, type TeamworkServer } from './teamwork-helpers.js'
+import {
+  mailIds,
+  mailTo,
+  roomWithCast,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from './teamwork-helpers.js'
 
 let tw: TeamworkServer
 let cast: RoomCast
@@ -42,18 +49,33 @@ describe('invite flow through the fake SMTP server', () => {
     expect(token).toMatch(/^[A-Za-z0-9_-]{43}$/)
     expect(mail.subject).toContain('Four-point sail — invite test')
     // Only the SHA-256 of the token is stored (FIPS 180-4 hash via node:crypto).
-    const [row] = await tw.server.dataSource.query('SELECT token_hash FROM invites WHERE id = ?', [reply.body.invite.id])
+    const [row] = await tw.server.dataSource.query('SELECT token_hash FROM invites WHERE id = ?', [
+      reply.body.invite.id,
+    ])
     expect(row.token_hash).toBe(createHash('sha256').update(token).digest('hex'))
     expect(JSON.stringify(row)).not.toContain(token)
 
     const preview = await tw.client().get(`/api/invites/${token}`)
     expect(preview.status).toBe(200)
-    expect(preview.body.invite).toMatchObject({ roomName: 'Four-point sail — invite test', role: 'editor', email, invitedBy: 'Olga Owner' })
+    expect(preview.body.invite).toMatchObject({
+      roomName: 'Four-point sail — invite test',
+      role: 'editor',
+      email,
+      invitedBy: 'Olga Owner',
+    })
 
     const guest = tw.client()
     expect((await guest.post(`/api/invites/${token}/accept`)).status).toBe(401)
     // The account must carry the invited address (in any case: addresses compare case-insensitively).
-    expect((await guest.post('/api/auth/signup', { email: email.toUpperCase(), name: 'Gita Guest', password: 'guest-password-1' })).status).toBe(201)
+    expect(
+      (
+        await guest.post('/api/auth/signup', {
+          email: email.toUpperCase(),
+          name: 'Gita Guest',
+          password: 'guest-password-1',
+        })
+      ).status,
+    ).toBe(201)
     const accepted = await guest.post(`/api/invites/${token}/accept`)
     expect(accepted.status).toBe(200)
     expect(accepted.body).toEqual({ roomId: cast.roomId, role: 'editor' })
@@ -66,12 +88,18 @@ describe('invite flow through the fake SMTP server', () => {
     await reuse.signUpFresh('late')
     const second = await reuse.post(`/api/invites/${token}/accept`)
     expect(second.status).toBe(410)
-    expect(second.body.error).toMatchObject({ code: 'invite_used', message: expect.stringMatching(/already been used/) })
+    expect(second.body.error).toMatchObject({
+      code: 'invite_used',
+      message: expect.stringMatching(/already been used/),
+    })
   })
 
   it('refuses an expired invite with 410 invite_expired', async () => {
     const { reply, token } = await invite(uniqueEmail('late'))
-    await tw.server.dataSource.query('UPDATE invites SET expires_at = ? WHERE id = ?', [new Date(Date.now() - 60_000), reply.body.invite.id])
+    await tw.server.dataSource.query('UPDATE invites SET expires_at = ? WHERE id = ?', [
+      new Date(Date.now() - 60_000),
+      reply.body.invite.id,
+    ])
     const preview = await tw.client().get(`/api/invites/${token}`)
     expect(preview.status).toBe(410)
     expect(preview.body.error.code).toBe('invite_expired')
@@ -86,8 +114,17 @@ describe('invite flow through the fake SMTP server', () => {
     const email = uniqueEmail('revoked')
     const { reply, token } = await invite(email, 'viewer')
     const pending = await cast.clients.owner.get(`/api/rooms/${cast.roomId}/invites`)
-    expect(pending.body.invites).toContainEqual(expect.objectContaining({ id: reply.body.invite.id, email, role: 'viewer', invitedBy: { id: cast.ids.owner, name: 'Olga Owner' } }))
-    expect((await cast.clients.owner.delete(`/api/rooms/${cast.roomId}/invites/${reply.body.invite.id}`)).status).toBe(204)
+    expect(pending.body.invites).toContainEqual(
+      expect.objectContaining({
+        id: reply.body.invite.id,
+        email,
+        role: 'viewer',
+        invitedBy: { id: cast.ids.owner, name: 'Olga Owner' },
+      }),
+    )
+    expect((await cast.clients.owner.delete(`/api/rooms/${cast.roomId}/invites/${reply.body.invite.id}`)).status).toBe(
+      204,
+    )
     const preview = await tw.client().get(`/api/invites/${token}`)
     expect(preview.status).toBe(410)
     expect(preview.body.error.code).toBe('invite_revoked')
@@ -114,25 +151,40 @@ describe('invite flow through the fake SMTP server', () => {
   })
 
   it('validates the invite body, naming the field', async () => {
-    const bad = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email: 'not-an-address', role: 'editor' })
+    const bad = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, {
+      email: 'not-an-address',
+      role: 'editor',
+    })
     expect(bad.status).toBe(400)
     expect(bad.body.error.field).toBe('email')
-    const role = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email: uniqueEmail(), role: 'admin' })
+    const role = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, {
+      email: uniqueEmail(),
+      role: 'admin',
+    })
     expect(role.body.error.field).toBe('role')
   })
 
   it('refuses to invite someone who is already a member (409, field email)', async () => {
     const [row] = await tw.server.dataSource.query('SELECT email FROM users WHERE id = ?', [cast.ids.viewer])
-    const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email: row.email, role: 'editor' })
+    const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, {
+      email: row.email,
+      role: 'editor',
+    })
     expect(reply.status).toBe(409)
     expect(reply.body.error).toMatchObject({ code: 'already_member', field: 'email' })
   })
 
   it('keeps nothing when the mail cannot be sent (502 mail_failed)', async () => {
     const failing = { send: () => Promise.reject(new Error('connection refused')), close: () => {} }
-    const service = invitesService({ dataSource: tw.server.dataSource, mailer: failing, publicUrl: 'http://example.test' })
+    const service = invitesService({
+      dataSource: tw.server.dataSource,
+      mailer: failing,
+      publicUrl: 'http://example.test',
+    })
     const email = uniqueEmail('unmailed')
-    await expect(service.create(cast.roomId, { email, role: 'viewer' }, { id: cast.ids.owner, name: 'Olga Owner' })).rejects.toMatchObject({ code: 'mail_failed', status: 502 })
+    await expect(
+      service.create(cast.roomId, { email, role: 'viewer' }, { id: cast.ids.owner, name: 'Olga Owner' }),
+    ).rejects.toMatchObject({ code: 'mail_failed', status: 502 })
     const rows = await tw.server.dataSource.query('SELECT id FROM invites WHERE email = ?', [email])
     expect(rows).toEqual([])
   })

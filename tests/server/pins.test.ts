@@ -19,21 +19,39 @@ describe('pins', () => {
     const reply = await cast.clients.reviewer.post(pinsPath(), newPin())
     expect(reply.status).toBe(201)
     expect(reply.body.pin).toMatchObject({
-      ...newPin(), resolved: false, author: { id: cast.ids.reviewer, name: 'Reviewer Person' }, replies: [],
+      ...newPin(),
+      resolved: false,
+      author: { id: cast.ids.reviewer, name: 'Reviewer Person' },
+      replies: [],
     })
     expect(Date.parse(reply.body.pin.createdAt)).toBeGreaterThan(Date.now() - 60_000)
-    expect(tw.live.emitted.at(-1)).toEqual({ roomId: cast.roomId, event: 'pin:changed', payload: { roomId: cast.roomId, pin: reply.body.pin } })
+    expect(tw.live.emitted.at(-1)).toEqual({
+      roomId: cast.roomId,
+      event: 'pin:changed',
+      payload: { roomId: cast.roomId, pin: reply.body.pin },
+    })
   })
 
   it('threads replies, lets only the author edit text and only editors resolve', async () => {
     const { pin } = (await cast.clients.reviewer.post(pinsPath(), newPin('Check drainage at the low corner'))).body
-    const replied = await cast.clients.editor.post(`${pinsPath()}/${pin.id}/replies`, { body: 'Agreed, adding a fall.' })
+    const replied = await cast.clients.editor.post(`${pinsPath()}/${pin.id}/replies`, {
+      body: 'Agreed, adding a fall.',
+    })
     expect(replied.status).toBe(201)
-    expect(replied.body.pin.replies).toEqual([{ id: expect.any(String), body: 'Agreed, adding a fall.', author: { id: cast.ids.editor, name: 'Editor Person' }, createdAt: expect.any(String) }])
+    expect(replied.body.pin.replies).toEqual([
+      {
+        id: expect.any(String),
+        body: 'Agreed, adding a fall.',
+        author: { id: cast.ids.editor, name: 'Editor Person' },
+        createdAt: expect.any(String),
+      },
+    ])
 
     expect((await cast.clients.editor.patch(`${pinsPath()}/${pin.id}`, { body: 'hijacked' })).status).toBe(403)
     expect((await cast.clients.reviewer.patch(`${pinsPath()}/${pin.id}`, { resolved: true })).status).toBe(403)
-    const edited = await cast.clients.reviewer.patch(`${pinsPath()}/${pin.id}`, { body: 'Check drainage at the south-west corner' })
+    const edited = await cast.clients.reviewer.patch(`${pinsPath()}/${pin.id}`, {
+      body: 'Check drainage at the south-west corner',
+    })
     expect(edited.body.pin.body).toBe('Check drainage at the south-west corner')
     const resolved = await cast.clients.editor.patch(`${pinsPath()}/${pin.id}`, { resolved: true })
     expect(resolved.body.pin.resolved).toBe(true)
@@ -52,7 +70,11 @@ describe('pins', () => {
     expect(mine.body.pins.map((p: { id: string }) => p.id)).toContain(pin.id)
     expect((await cast.clients.owner.delete(`${pinsPath()}/${pin.id}`)).status).toBe(403)
     expect((await cast.clients.editor.delete(`${pinsPath()}/${pin.id}`)).status).toBe(204)
-    expect(tw.live.emitted.at(-1)).toEqual({ roomId: cast.roomId, event: 'pin:deleted', payload: { roomId: cast.roomId, pinId: pin.id } })
+    expect(tw.live.emitted.at(-1)).toEqual({
+      roomId: cast.roomId,
+      event: 'pin:deleted',
+      payload: { roomId: cast.roomId, pinId: pin.id },
+    })
     expect((await cast.clients.editor.delete(`${pinsPath()}/${pin.id}`)).body.error.code).toBe('pin_not_found')
   })
 

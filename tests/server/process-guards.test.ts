@@ -11,13 +11,18 @@ const root = resolve(import.meta.dirname, '../..')
 
 function runScript(withGuards: boolean): Promise<{ code: number | null; out: string }> {
   const script = [
-    withGuards ? "const { installProcessGuards } = await import('./server/lib/process-guards.ts'); installProcessGuards();" : '',
+    withGuards
+      ? "const { installProcessGuards } = await import('./server/lib/process-guards.ts'); installProcessGuards();"
+      : '',
     "setTimeout(() => { throw new Error('thrown from a timer') }, 5);",
     "setTimeout(() => { void Promise.reject(new Error('rejected, never awaited')) }, 10);",
     "setTimeout(() => console.log('still serving'), 50);",
   ].join('\n')
   return new Promise((done) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], { cwd: root, env: { ...process.env, LOG_LEVEL: 'info' } })
+    const child = spawn(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
+      cwd: root,
+      env: { ...process.env, LOG_LEVEL: 'info' },
+    })
     let out = ''
     child.stdout.on('data', (c: Buffer) => (out += c.toString()))
     child.stderr.on('data', (c: Buffer) => (out += c.toString()))

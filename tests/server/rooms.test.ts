@@ -42,8 +42,22 @@ describe('room routes × role', () => {
     roomId = await roomWithMembers()
   })
 
-  const readable: Record<Who, number> = { owner: 200, editor: 200, reviewer: 200, viewer: 200, outsider: 404, signedOut: 401 }
-  const editable: Record<Who, number> = { owner: 200, editor: 200, reviewer: 403, viewer: 403, outsider: 404, signedOut: 401 }
+  const readable: Record<Who, number> = {
+    owner: 200,
+    editor: 200,
+    reviewer: 200,
+    viewer: 200,
+    outsider: 404,
+    signedOut: 401,
+  }
+  const editable: Record<Who, number> = {
+    owner: 200,
+    editor: 200,
+    reviewer: 403,
+    viewer: 403,
+    outsider: 404,
+    signedOut: 401,
+  }
 
   it.each(everyone)('GET /api/rooms/:id as %s', async (who) => {
     const reply = await clients[who].get(`/api/rooms/${roomId}`)
@@ -62,21 +76,29 @@ describe('room routes × role', () => {
     expect(reply.status).toBe(readable[who])
     if (reply.status === 200) {
       expect(reply.body.members.map((m: { role: string }) => m.role)).toEqual(['owner', 'editor', 'reviewer', 'viewer'])
-      expect(reply.body.members[0]).toEqual({ userId: userIds.owner, name: 'Member owner', email: expect.stringContaining('@'), role: 'owner' })
+      expect(reply.body.members[0]).toEqual({
+        userId: userIds.owner,
+        name: 'Member owner',
+        email: expect.stringContaining('@'),
+        role: 'owner',
+      })
     }
   })
 
   it.each(everyone)('PATCH /api/rooms/:id as %s', async (who) => {
     const reply = await clients[who].patch(`/api/rooms/${roomId}`, { description: `edited by ${who}` })
     expect(reply.status).toBe(editable[who])
-    if (reply.status === 200) expect(reply.body.room).toMatchObject({ id: roomId, description: `edited by ${who}`, role: who })
+    if (reply.status === 200)
+      expect(reply.body.room).toMatchObject({ id: roomId, description: `edited by ${who}`, role: who })
     if (reply.status === 403) expect(reply.body.error.code).toBe('forbidden')
   })
 
   it.each(everyone)('DELETE /api/rooms/:id as %s', async (who) => {
     const target = await roomWithMembers()
     const reply = await clients[who].delete(`/api/rooms/${target}`)
-    expect(reply.status).toBe({ owner: 204, editor: 403, reviewer: 403, viewer: 403, outsider: 404, signedOut: 401 }[who])
+    expect(reply.status).toBe(
+      { owner: 204, editor: 403, reviewer: 403, viewer: 403, outsider: 404, signedOut: 401 }[who],
+    )
     const after = await clients.owner.get(`/api/rooms/${target}`)
     expect(after.status).toBe(who === 'owner' ? 404 : 200)
   })
@@ -93,7 +115,8 @@ describe('room routes × role', () => {
   it.each(everyone)('POST /api/rooms as %s', async (who) => {
     const reply = await clients[who].post('/api/rooms', { name: `Made by ${who}`, description: '' })
     expect(reply.status).toBe(who === 'signedOut' ? 401 : 201)
-    if (reply.status === 201) expect(reply.body.room).toMatchObject({ name: `Made by ${who}`, role: 'owner', memberCount: 1 })
+    if (reply.status === 201)
+      expect(reply.body.room).toMatchObject({ name: `Made by ${who}`, role: 'owner', memberCount: 1 })
   })
 })
 
@@ -128,7 +151,11 @@ describe('room input', () => {
   it('refuses an unknown starting frame, naming the field', async () => {
     const reply = await clients.owner.post('/api/rooms', { name: 'Odd start', starter: 'dome' })
     expect(reply.status).toBe(400)
-    expect(reply.body.error).toMatchObject({ code: 'invalid_input', field: 'starter', message: expect.stringContaining('tent') })
+    expect(reply.body.error).toMatchObject({
+      code: 'invalid_input',
+      field: 'starter',
+      message: expect.stringContaining('tent'),
+    })
   })
 
   it('accepts the limits exactly: 120-character name, 2000-character description', async () => {

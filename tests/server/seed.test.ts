@@ -26,10 +26,14 @@ describe('demo seed', () => {
     }
   })
 
-  it.each(demoAccounts)('$email signs in with the printed password and sees both demo rooms as $role', async (account) => {
-    const c = new ApiClient(server.url)
-    expect((await c.post('/api/auth/signin', { email: account.email, password: account.password })).status).toBe(200)
-    const { rooms } = (await c.get('/api/rooms')).body as { rooms: { name: string; role: string }[] }
-    for (const demo of demoRooms) expect(rooms).toContainEqual(expect.objectContaining({ name: demo.name, role: account.role }))
-  })
+  it.each(demoAccounts)(
+    '$email signs in with the printed password and sees both demo rooms as $role',
+    async (account) => {
+      const c = new ApiClient(server.url)
+      expect((await c.post('/api/auth/signin', { email: account.email, password: account.password })).status).toBe(200)
+      const { rooms } = (await c.get('/api/rooms')).body as { rooms: { name: string; role: string }[] }
+      for (const demo of demoRooms)
+        expect(rooms).toContainEqual(expect.objectContaining({ name: demo.name, role: account.role }))
+    },
+  )
 })

@@ -2,7 +2,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { solveFrame } from '../../shared/engine.js'
 import { parseFrameJson } from '../../shared/frame/index.js'
 import type { Frame } from '../../shared/types.js'
-import { engineLive, roomWithCast, startTeamworkServer, type RoomCast, type TeamworkServer } from './teamwork-helpers.js'
+import {
+  engineLive,
+  roomWithCast,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from './teamwork-helpers.js'
 
 // Scherk's first surface u = ln(cos y / cos x) over [−1, 1]²: area 5.69751221 (H. F. Scherk 1835,
 // value from /work/shared/CHECKS.md). The frame samples the exact boundary heights, shifted off the
@@ -10,7 +16,12 @@ import { engineLive, roomWithCast, startTeamworkServer, type RoomCast, type Team
 function scherkFrame(perSide = 40): Frame {
   const u = (x: number, y: number) => Math.log(Math.cos(y) / Math.cos(x))
   const points: { id: string; x: number; y: number; z: number }[] = []
-  const corners = [[-1, -1], [1, -1], [1, 1], [-1, 1]] as const
+  const corners = [
+    [-1, -1],
+    [1, -1],
+    [1, 1],
+    [-1, 1],
+  ] as const
   for (let side = 0; side < 4; side++) {
     const [ax, ay] = corners[side]!
     const [bx, by] = corners[(side + 1) % 4]!
@@ -22,7 +33,11 @@ function scherkFrame(perSide = 40): Frame {
       points.push({ id: `s${side}k${k}`, x: 10 + x, y: 20 + y, z: 2 + u(x, y) })
     }
   }
-  return parseFrameJson({ prestress: { warp: 2, fill: 2 }, mesh: { edgeLength: 0.08 }, loops: [{ role: 'outer', points }] })
+  return parseFrameJson({
+    prestress: { warp: 2, fill: 2 },
+    mesh: { edgeLength: 0.08 },
+    loops: [{ role: 'outer', points }],
+  })
 }
 
 const engine = engineLive((f) => solveFrame(f))
@@ -55,7 +70,11 @@ describe('snapshots', () => {
     const saved = await cast.clients.editor.post(snaps(), { name: 'Scherk, 40 points a side', note: 'baseline' })
     expect(saved.status).toBe(201)
     const { snapshot } = saved.body
-    expect(snapshot).toMatchObject({ name: 'Scherk, 40 points a side', note: 'baseline', author: { id: cast.ids.editor, name: 'Editor Person' } })
+    expect(snapshot).toMatchObject({
+      name: 'Scherk, 40 points a side',
+      note: 'baseline',
+      author: { id: cast.ids.editor, name: 'Editor Person' },
+    })
     expect(snapshot.figures.cableCount).toBe(0)
     // The exact area is 5.69751221 (CHECKS.md); sampled boundary and linear elements stay within 0.5 %.
     expect(snapshot.figures.area).toBeCloseTo(5.69751221, 1)
@@ -81,8 +100,10 @@ describe('snapshots', () => {
     let area = 0
     for (const [a, b, c] of surface.body.triangles as [number, number, number][]) {
       const [p, q, r] = [V[a]!, V[b]!, V[c]!]
-      const u = [q[0] - p[0], q[1] - p[1], q[2] - p[2]], w = [r[0] - p[0], r[1] - p[1], r[2] - p[2]]
-      area += 0.5 * Math.hypot(u[1]! * w[2]! - u[2]! * w[1]!, u[2]! * w[0]! - u[0]! * w[2]!, u[0]! * w[1]! - u[1]! * w[0]!)
+      const u = [q[0] - p[0], q[1] - p[1], q[2] - p[2]],
+        w = [r[0] - p[0], r[1] - p[1], r[2] - p[2]]
+      area +=
+        0.5 * Math.hypot(u[1]! * w[2]! - u[2]! * w[1]!, u[2]! * w[0]! - u[0]! * w[2]!, u[0]! * w[1]! - u[1]! * w[0]!)
     }
     expect(area).toBeCloseTo(snapshot.figures.area, 4)
   })
@@ -112,7 +133,9 @@ describe('snapshots', () => {
     expect((await cast.clients.viewer.get(`/api/rooms/${cast.roomId}/surface`)).body.error.code).toBe('no_surface')
     expect((await cast.clients.reviewer.delete(`${snaps()}/${ok.body.snapshot.id}`)).status).toBe(403)
     expect((await cast.clients.editor.delete(`${snaps()}/${ok.body.snapshot.id}`)).status).toBe(204)
-    expect((await cast.clients.viewer.get(`${snaps()}/${ok.body.snapshot.id}`)).body.error.code).toBe('snapshot_not_found')
+    expect((await cast.clients.viewer.get(`${snaps()}/${ok.body.snapshot.id}`)).body.error.code).toBe(
+      'snapshot_not_found',
+    )
   })
 
   it('validates the name, naming the field', async () => {

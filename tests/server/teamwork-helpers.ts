@@ -55,7 +55,10 @@ export interface TeamworkServer {
  * files mail into the test database (read back through GET /api/dev/mailbox), and the live room
  * replaced by a recording stand-in (optionally forwarding to `inner`).
  */
-export async function startTeamworkServer(inner?: Partial<RoomLive>, env: Record<string, string> = {}): Promise<TeamworkServer> {
+export async function startTeamworkServer(
+  inner?: Partial<RoomLive>,
+  env: Record<string, string> = {},
+): Promise<TeamworkServer> {
   const config = loadConfig({ ...process.env, NODE_ENV: 'test' })
   const mailData = await createDataSource(config).initialize()
   const smtp = await startFakeSmtp(dbMailbox(mailData), 0)
@@ -116,7 +119,9 @@ export async function addMember(dataSource: DataSource, roomId: string, userId: 
 /** The newest 500 messages with `to` among their recipients, straight from the store. */
 async function stored(tw: TeamworkServer, to: string) {
   const wanted = to.toLowerCase()
-  return (await dbMailbox(tw.server.dataSource).list(500)).filter((m) => m.to.toLowerCase().split(', ').includes(wanted))
+  return (await dbMailbox(tw.server.dataSource).list(500)).filter((m) =>
+    m.to.toLowerCase().split(', ').includes(wanted),
+  )
 }
 
 /** Ids of the mail already delivered to `to`, so a test can wait for the next one. */
@@ -125,7 +130,11 @@ export async function mailIds(tw: TeamworkServer, to: string): Promise<Set<strin
 }
 
 /** The newest mail to `to` not in `seen`, waiting briefly (SMTP delivery is asynchronous). */
-export async function mailTo(tw: TeamworkServer, to: string, seen = new Set<string>()): Promise<{ subject: string; text: string; html?: string }> {
+export async function mailTo(
+  tw: TeamworkServer,
+  to: string,
+  seen = new Set<string>(),
+): Promise<{ subject: string; text: string; html?: string }> {
   for (let i = 0; i < 50; i++) {
     const m = (await stored(tw, to)).find((x) => !seen.has(x.id))
     if (m) return m
@@ -156,7 +165,13 @@ export function engineLive(solve: (frame: Frame) => SurfaceResult) {
         if (!frame || settledVersion < 0) return null
         if (!surface || surface.version !== settledVersion) {
           const r = solve(frame)
-          surface = { version: settledVersion, vertices: Float32Array.from(r.vertices.flat()), triangles: Uint32Array.from(r.triangles.flat()), figures: r.figures, solver: r.solver }
+          surface = {
+            version: settledVersion,
+            vertices: Float32Array.from(r.vertices.flat()),
+            triangles: Uint32Array.from(r.triangles.flat()),
+            figures: r.figures,
+            solver: r.solver,
+          }
         }
         return surface
       },
@@ -183,6 +198,8 @@ export async function sendForm(client: ApiClient, method: 'POST' | 'PUT', path: 
 
 /** A GET whose body is a file (text or bytes), with the response headers. */
 export async function download(client: ApiClient, path: string) {
-  const res = await fetch(client.baseUrl + path, { headers: { cookie: `${SESSION_COOKIE}=${client.cookie(SESSION_COOKIE) ?? ''}` } })
+  const res = await fetch(client.baseUrl + path, {
+    headers: { cookie: `${SESSION_COOKIE}=${client.cookie(SESSION_COOKIE) ?? ''}` },
+  })
   return { status: res.status, bytes: Buffer.from(await res.arrayBuffer()), headers: res.headers }
 }

@@ -7,35 +7,61 @@ import { connectStream, makeRoom, makeUser, signIn, startLive, until, type Live 
 // and the solver pool, not a stand-in.
 let live: Live
 let roomId: string
-const cookies: Record<'owner' | 'editor' | 'reviewer' | 'viewer', string> = { owner: '', editor: '', reviewer: '', viewer: '' }
+const cookies: Record<'owner' | 'editor' | 'reviewer' | 'viewer', string> = {
+  owner: '',
+  editor: '',
+  reviewer: '',
+  viewer: '',
+}
 const sockets: Socket[] = []
 
 async function call(who: keyof typeof cookies, method: string, path: string, body?: unknown) {
   const cookie = cookies[who]
   const headers: Record<string, string> = { cookie }
   if (method !== 'GET') {
-    headers['x-csrf-token'] = ((await (await fetch(`${live.url}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string }).token
+    headers['x-csrf-token'] = (
+      (await (await fetch(`${live.url}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string }
+    ).token
   }
   if (body !== undefined) headers['content-type'] = 'application/json'
-  const res = await fetch(live.url + path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+  const res = await fetch(live.url + path, {
+    method,
+    headers,
+    body: body === undefined ? undefined : JSON.stringify(body),
+  })
   const text = await res.text()
-  return { status: res.status, text, body: res.headers.get('content-type')?.includes('json') && text ? JSON.parse(text) : null }
+  return {
+    status: res.status,
+    text,
+    body: res.headers.get('content-type')?.includes('json') && text ? JSON.parse(text) : null,
+  }
 }
 
 function joined(who: keyof typeof cookies): Promise<Socket> {
   const socket = connectStream(live.url, cookies[who])
   sockets.push(socket)
   return new Promise((resolve, reject) => {
-    socket.emit('room:join', { roomId }, (ack: { ok: boolean }) => (ack.ok ? resolve(socket) : reject(new Error(JSON.stringify(ack)))))
+    socket.emit('room:join', { roomId }, (ack: { ok: boolean }) =>
+      ack.ok ? resolve(socket) : reject(new Error(JSON.stringify(ack))),
+    )
   })
 }
 
 beforeAll(async () => {
   live = await startLive()
   const ds = live.running.dataSource
-  const users = { owner: await makeUser(ds, 'Owner'), editor: await makeUser(ds, 'Editor'), reviewer: await makeUser(ds, 'Reviewer'), viewer: await makeUser(ds, 'Viewer') }
-  roomId = await makeRoom(ds, (Object.keys(users) as (keyof typeof users)[]).map((role) => ({ userId: users[role].id, role })))
-  for (const role of Object.keys(users) as (keyof typeof users)[]) cookies[role] = await signIn(live.url, users[role].email)
+  const users = {
+    owner: await makeUser(ds, 'Owner'),
+    editor: await makeUser(ds, 'Editor'),
+    reviewer: await makeUser(ds, 'Reviewer'),
+    viewer: await makeUser(ds, 'Viewer'),
+  }
+  roomId = await makeRoom(
+    ds,
+    (Object.keys(users) as (keyof typeof users)[]).map((role) => ({ userId: users[role].id, role })),
+  )
+  for (const role of Object.keys(users) as (keyof typeof users)[])
+    cookies[role] = await signIn(live.url, users[role].email)
   // A flat 6 m × 6 m square held on rigid edges: its minimal surface is the plane itself.
   await live.realtime.ensureRoomFrame(roomId, 'blank')
 }, 60_000)
@@ -50,7 +76,13 @@ describe('team work in a live room', () => {
     const events: { event: string; payload: any }[] = []
     viewer.on('pin:changed', (payload) => events.push({ event: 'pin:changed', payload }))
     viewer.on('pin:deleted', (payload) => events.push({ event: 'pin:deleted', payload }))
-    const created = await call('reviewer', 'POST', `/api/rooms/${roomId}/pins`, { x: 3, y: 3, z: 0, docVersion: 1, body: 'Flat: will pond' })
+    const created = await call('reviewer', 'POST', `/api/rooms/${roomId}/pins`, {
+      x: 3,
+      y: 3,
+      z: 0,
+      docVersion: 1,
+      body: 'Flat: will pond',
+    })
     expect(created.status).toBe(201)
     await until(() => events.length === 1, 5000, 'pin:changed')
     expect(events[0]).toEqual({ event: 'pin:changed', payload: { roomId, pin: created.body.pin } })
@@ -79,7 +111,10 @@ describe('team work in a live room', () => {
     const viewer = await joined('viewer')
     let gone = false
     viewer.on('disconnect', () => (gone = true))
-    const [row] = await live.running.dataSource.query('SELECT user_id FROM memberships WHERE room_id = ? AND role = ?', [roomId, 'viewer'])
+    const [row] = await live.running.dataSource.query(
+      'SELECT user_id FROM memberships WHERE room_id = ? AND role = ?',
+      [roomId, 'viewer'],
+    )
     expect((await call('owner', 'DELETE', `/api/rooms/${roomId}/members/${row.user_id}`)).status).toBe(204)
     await until(() => gone, 5000, 'the viewer socket to close')
   })

@@ -23,10 +23,20 @@ describe('fake SMTP server', () => {
   })
 
   it('receives a nodemailer message with UTF-8 subject, long text and HTML', async () => {
-    const mailer = createMailer({ host: '127.0.0.1', port: smtp.port, from: 'Veilroom <no-reply@veilroom.test>', secure: false })
+    const mailer = createMailer({
+      host: '127.0.0.1',
+      port: smtp.port,
+      from: 'Veilroom <no-reply@veilroom.test>',
+      secure: false,
+    })
     const longLine = 'Courtyard canopy — Example Yard A: ' + 'ä'.repeat(120)
     const text = `Hello Åsa,\n\n${longLine}\nhttp://127.0.0.1:3210/invite/abc_DEF-123=\n`
-    await mailer.send({ to: 'asa@example.test', subject: 'Join “Terrace sail” as reviewer', text, html: '<p>Hello <b>Åsa</b></p>' })
+    await mailer.send({
+      to: 'asa@example.test',
+      subject: 'Join “Terrace sail” as reviewer',
+      text,
+      html: '<p>Hello <b>Åsa</b></p>',
+    })
     mailer.close()
     const [m] = await mailbox.list()
     expect(m?.to).toBe('asa@example.test')
@@ -36,7 +46,14 @@ describe('fake SMTP server', () => {
   })
 
   it('accepts any credentials, since it only ever runs on loopback', async () => {
-    const mailer = createMailer({ host: '127.0.0.1', port: smtp.port, user: 'dev', pass: 'x', from: 'a@b.test', secure: false })
+    const mailer = createMailer({
+      host: '127.0.0.1',
+      port: smtp.port,
+      user: 'dev',
+      pass: 'x',
+      from: 'a@b.test',
+      secure: false,
+    })
     await mailer.send({ to: 'b@example.test', subject: 'plain', text: 'only text' })
     mailer.close()
     const [m] = await mailbox.list(1)

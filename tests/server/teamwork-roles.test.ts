@@ -6,7 +6,16 @@ import type { RoomRole } from '../../server/db/entities/index.js'
 import { solveFrame } from '../../shared/engine.js'
 import { parseFrameJson } from '../../shared/frame/index.js'
 import { uniqueEmail, type ApiClient } from '../helpers/test-server.js'
-import { addMember, download, engineLive, roomWithCast, sendForm, startTeamworkServer, type RoomCast, type TeamworkServer } from './teamwork-helpers.js'
+import {
+  addMember,
+  download,
+  engineLive,
+  roomWithCast,
+  sendForm,
+  startTeamworkServer,
+  type RoomCast,
+  type TeamworkServer,
+} from './teamwork-helpers.js'
 
 // Every team-work room route against every kind of caller, from one table: signed out → 401,
 // not a member → 404 (rooms are not probeable), role below the route's minimum → 403, else the
@@ -18,7 +27,10 @@ const expected = (who: Who, min: RoomRole, ok: number) =>
   who === 'signedOut' ? 401 : who === 'outsider' ? 404 : rank[who] >= rank[min] ? ok : 403
 
 const example = readFileSync(resolve(import.meta.dirname, '../../examples/hypar-sail.json'), 'utf8')
-const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGP4//8/AAX+Av4N70a4AAAAAElFTkSuQmCC', 'base64')
+const png = Buffer.from(
+  'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAIAAACQd1PeAAAADElEQVR4nGP4//8/AAX+Av4N70a4AAAAAElFTkSuQmCC',
+  'base64',
+)
 
 const engine = engineLive((f) => solveFrame(f))
 let tw: TeamworkServer
@@ -46,10 +58,15 @@ const newPin = async (c: ApiClient, who: Who) => {
   const author = who === 'owner' || who === 'editor' || who === 'reviewer' ? c : owner()
   return (await author.post(`${room()}/pins`, { x: 1, y: 2, z: 3, docVersion: 1, body: 'a pin' })).body.pin.id as string
 }
-const newSnapshot = async () => (await owner().post(`${room()}/snapshots`, { name: `s-${randomUUID().slice(0, 6)}` })).body.snapshot.id as string
+const newSnapshot = async () =>
+  (await owner().post(`${room()}/snapshots`, { name: `s-${randomUUID().slice(0, 6)}` })).body.snapshot.id as string
 const extraMember = async () => {
   const c = tw.client()
-  const u = await c.post('/api/auth/signup', { email: uniqueEmail('extra'), name: 'Extra', password: 'long-enough-pass' })
+  const u = await c.post('/api/auth/signup', {
+    email: uniqueEmail('extra'),
+    name: 'Extra',
+    password: 'long-enough-pass',
+  })
   await addMember(tw.server.dataSource, cast.roomId, u.body.user.id, 'viewer')
   return u.body.user.id as string
 }
@@ -63,33 +80,131 @@ interface Row {
 
 const downloads = ['frame.json', 'surface.obj', 'surface.stl', 'figures.csv']
 const rows: Row[] = [
-  { route: 'POST invites', min: 'owner', ok: 201, call: (c) => c.post(`${room()}/invites`, { email: uniqueEmail('inv'), role: 'viewer' }) },
+  {
+    route: 'POST invites',
+    min: 'owner',
+    ok: 201,
+    call: (c) => c.post(`${room()}/invites`, { email: uniqueEmail('inv'), role: 'viewer' }),
+  },
   { route: 'GET invites', min: 'owner', ok: 200, call: (c) => c.get(`${room()}/invites`) },
   {
-    route: 'DELETE invites/:inviteId', min: 'owner', ok: 204,
-    call: async (c) => c.delete(`${room()}/invites/${(await owner().post(`${room()}/invites`, { email: uniqueEmail('inv'), role: 'viewer' })).body.invite.id}`),
+    route: 'DELETE invites/:inviteId',
+    min: 'owner',
+    ok: 204,
+    call: async (c) =>
+      c.delete(
+        `${room()}/invites/${(await owner().post(`${room()}/invites`, { email: uniqueEmail('inv'), role: 'viewer' })).body.invite.id}`,
+      ),
   },
-  { route: 'PATCH members/:userId', min: 'owner', ok: 200, call: async (c) => c.patch(`${room()}/members/${await extraMember()}`, { role: 'reviewer' }) },
-  { route: 'DELETE members/:userId (someone else)', min: 'owner', ok: 204, call: async (c) => c.delete(`${room()}/members/${await extraMember()}`) },
+  {
+    route: 'PATCH members/:userId',
+    min: 'owner',
+    ok: 200,
+    call: async (c) => c.patch(`${room()}/members/${await extraMember()}`, { role: 'reviewer' }),
+  },
+  {
+    route: 'DELETE members/:userId (someone else)',
+    min: 'owner',
+    ok: 204,
+    call: async (c) => c.delete(`${room()}/members/${await extraMember()}`),
+  },
   { route: 'GET pins', min: 'viewer', ok: 200, call: (c) => c.get(`${room()}/pins?status=all`) },
-  { route: 'POST pins', min: 'reviewer', ok: 201, call: (c) => c.post(`${room()}/pins`, { x: 0, y: 0, z: 1, docVersion: 3, body: 'hello' }) },
-  { route: 'POST pins/:pinId/replies', min: 'reviewer', ok: 201, call: async (c, who) => c.post(`${room()}/pins/${await newPin(c, who)}/replies`, { body: 're' }) },
-  { route: 'PATCH pins/:pinId { body } (own pin)', min: 'reviewer', ok: 200, call: async (c, who) => c.patch(`${room()}/pins/${await newPin(c, who)}`, { body: 'edited' }) },
-  { route: 'PATCH pins/:pinId { resolved }', min: 'editor', ok: 200, call: async (c, who) => c.patch(`${room()}/pins/${await newPin(c, who)}`, { resolved: true }) },
-  { route: 'DELETE pins/:pinId (own pin)', min: 'reviewer', ok: 204, call: async (c, who) => c.delete(`${room()}/pins/${await newPin(c, who)}`) },
+  {
+    route: 'POST pins',
+    min: 'reviewer',
+    ok: 201,
+    call: (c) => c.post(`${room()}/pins`, { x: 0, y: 0, z: 1, docVersion: 3, body: 'hello' }),
+  },
+  {
+    route: 'POST pins/:pinId/replies',
+    min: 'reviewer',
+    ok: 201,
+    call: async (c, who) => c.post(`${room()}/pins/${await newPin(c, who)}/replies`, { body: 're' }),
+  },
+  {
+    route: 'PATCH pins/:pinId { body } (own pin)',
+    min: 'reviewer',
+    ok: 200,
+    call: async (c, who) => c.patch(`${room()}/pins/${await newPin(c, who)}`, { body: 'edited' }),
+  },
+  {
+    route: 'PATCH pins/:pinId { resolved }',
+    min: 'editor',
+    ok: 200,
+    call: async (c, who) => c.patch(`${room()}/pins/${await newPin(c, who)}`, { resolved: true }),
+  },
+  {
+    route: 'DELETE pins/:pinId (own pin)',
+    min: 'reviewer',
+    ok: 204,
+    call: async (c, who) => c.delete(`${room()}/pins/${await newPin(c, who)}`),
+  },
   { route: 'GET snapshots', min: 'viewer', ok: 200, call: (c) => c.get(`${room()}/snapshots`) },
-  { route: 'POST snapshots', min: 'editor', ok: 201, call: (c) => c.post(`${room()}/snapshots`, { name: 'role check' }) },
-  { route: 'GET snapshots/:sid', min: 'viewer', ok: 200, call: async (c) => c.get(`${room()}/snapshots/${await newSnapshot()}`) },
-  { route: 'GET snapshots/:sid/surface', min: 'viewer', ok: 200, call: async (c) => c.get(`${room()}/snapshots/${await newSnapshot()}/surface`) },
-  { route: 'DELETE snapshots/:sid', min: 'editor', ok: 204, call: async (c) => c.delete(`${room()}/snapshots/${await newSnapshot()}`) },
-  { route: 'POST frame/import', min: 'editor', ok: 200, call: (c) => sendForm(c, 'POST', `${room()}/frame/import`, form('file', 'f.json', example)) },
-  { route: 'PUT underlay', min: 'editor', ok: 200, call: (c) => sendForm(c, 'PUT', `${room()}/underlay`, form('image', 'u.png', png, scale)) },
-  { route: 'GET underlay', min: 'viewer', ok: 200, call: async (c) => (await ensureUnderlay(), download(c, `${room()}/underlay`)) },
-  { route: 'GET underlay/meta', min: 'viewer', ok: 200, call: async (c) => (await ensureUnderlay(), c.get(`${room()}/underlay/meta`)) },
-  { route: 'DELETE underlay', min: 'editor', ok: 204, call: async (c) => (await ensureUnderlay(), c.delete(`${room()}/underlay`)) },
-  ...downloads.map((kind): Row => ({ route: `GET ${kind}`, min: 'viewer', ok: 200, call: (c) => download(c, `${room()}/${kind}`) })),
+  {
+    route: 'POST snapshots',
+    min: 'editor',
+    ok: 201,
+    call: (c) => c.post(`${room()}/snapshots`, { name: 'role check' }),
+  },
+  {
+    route: 'GET snapshots/:sid',
+    min: 'viewer',
+    ok: 200,
+    call: async (c) => c.get(`${room()}/snapshots/${await newSnapshot()}`),
+  },
+  {
+    route: 'GET snapshots/:sid/surface',
+    min: 'viewer',
+    ok: 200,
+    call: async (c) => c.get(`${room()}/snapshots/${await newSnapshot()}/surface`),
+  },
+  {
+    route: 'DELETE snapshots/:sid',
+    min: 'editor',
+    ok: 204,
+    call: async (c) => c.delete(`${room()}/snapshots/${await newSnapshot()}`),
+  },
+  {
+    route: 'POST frame/import',
+    min: 'editor',
+    ok: 200,
+    call: (c) => sendForm(c, 'POST', `${room()}/frame/import`, form('file', 'f.json', example)),
+  },
+  {
+    route: 'PUT underlay',
+    min: 'editor',
+    ok: 200,
+    call: (c) => sendForm(c, 'PUT', `${room()}/underlay`, form('image', 'u.png', png, scale)),
+  },
+  {
+    route: 'GET underlay',
+    min: 'viewer',
+    ok: 200,
+    call: async (c) => (await ensureUnderlay(), download(c, `${room()}/underlay`)),
+  },
+  {
+    route: 'GET underlay/meta',
+    min: 'viewer',
+    ok: 200,
+    call: async (c) => (await ensureUnderlay(), c.get(`${room()}/underlay/meta`)),
+  },
+  {
+    route: 'DELETE underlay',
+    min: 'editor',
+    ok: 204,
+    call: async (c) => (await ensureUnderlay(), c.delete(`${room()}/underlay`)),
+  },
   ...downloads.map((kind): Row => ({
-    route: `GET snapshots/:sid/${kind}`, min: 'viewer', ok: 200, call: async (c) => download(c, `${room()}/snapshots/${await newSnapshot()}/${kind}`),
+    route: `GET ${kind}`,
+    min: 'viewer',
+    ok: 200,
+    call: (c) => download(c, `${room()}/${kind}`),
+  })),
+  ...downloads.map((kind): Row => ({
+    route: `GET snapshots/:sid/${kind}`,
+    min: 'viewer',
+    ok: 200,
+    call: async (c) => download(c, `${room()}/snapshots/${await newSnapshot()}/${kind}`),
   })),
 ]
 
@@ -107,10 +222,20 @@ describe('team-work routes × roles', () => {
 
 describe('CSRF on team-work routes', () => {
   it('refuses a state-changing request without the x-csrf-token header (403 csrf_invalid)', async () => {
-    const reply = await owner().request('POST', `${room()}/pins`, { x: 0, y: 0, z: 0, docVersion: 0, body: 'no token' }, { csrf: false })
+    const reply = await owner().request(
+      'POST',
+      `${room()}/pins`,
+      { x: 0, y: 0, z: 0, docVersion: 0, body: 'no token' },
+      { csrf: false },
+    )
     expect(reply.status).toBe(403)
     expect(reply.body.error.code).toBe('csrf_invalid')
-    const invite = await owner().request('POST', `${room()}/invites`, { email: uniqueEmail(), role: 'viewer' }, { csrf: false })
+    const invite = await owner().request(
+      'POST',
+      `${room()}/invites`,
+      { email: uniqueEmail(), role: 'viewer' },
+      { csrf: false },
+    )
     expect(invite.status).toBe(403)
   })
 })

@@ -8,7 +8,10 @@ import { frameFile, squareLoop } from './frame-fixtures'
 
 const dir = mkdtempSync(join(tmpdir(), 'veilroom-cli-'))
 function solve(...args: string[]) {
-  return spawnSync(process.execPath, ['--import', 'tsx', 'scripts/solve.ts', ...args], { encoding: 'utf8', timeout: 60_000 })
+  return spawnSync(process.execPath, ['--import', 'tsx', 'scripts/solve.ts', ...args], {
+    encoding: 'utf8',
+    timeout: 60_000,
+  })
 }
 
 describe('npm run solve', () => {
@@ -37,7 +40,16 @@ describe('npm run solve', () => {
 
   it('solves a small frame, prints the summary and the caution, writes OBJ', () => {
     const good = join(dir, 'sail.json')
-    writeFileSync(good, JSON.stringify(frameFile(squareLoop(4, 0, 0, (i) => (i % 2 ? 1 : 0)), [], 0.5)))
+    writeFileSync(
+      good,
+      JSON.stringify(
+        frameFile(
+          squareLoop(4, 0, 0, (i) => (i % 2 ? 1 : 0)),
+          [],
+          0.5,
+        ),
+      ),
+    )
     const out = join(dir, 'sail.obj')
     const r = solve(good, '--out', out, '--format', 'obj')
     expect(r.stderr).toBe('')
@@ -49,7 +61,11 @@ describe('npm run solve', () => {
 
   it('writes the caution into the JSON (a caution field) and the STL (the solid name); names cables as the workbench does', () => {
     const sail = join(dir, 'cable-sail.json')
-    const file = frameFile(squareLoop(4, 0, 0, (i) => (i % 2 ? 1 : 0)), [], 0.5) as { loops: { edges?: unknown[] }[] }
+    const file = frameFile(
+      squareLoop(4, 0, 0, (i) => (i % 2 ? 1 : 0)),
+      [],
+      0.5,
+    ) as { loops: { edges?: unknown[] }[] }
     file.loops[0]!.edges = [{ kind: 'rigid' }, { kind: 'cable', tension: 10 }, { kind: 'rigid' }, { kind: 'rigid' }]
     writeFileSync(sail, JSON.stringify(file))
     const json = join(dir, 'sail.json.out')

@@ -7,7 +7,13 @@ import { parseFrameJson } from '../../shared/frame'
 import type { SolverReport } from '../../shared/types'
 import { frameFile, squareLoop } from './frame-fixtures'
 
-const frame = parseFrameJson(frameFile(squareLoop(3, 1, 2, (i) => i * 0.5), [], 0.75))
+const frame = parseFrameJson(
+  frameFile(
+    squareLoop(3, 1, 2, (i) => i * 0.5),
+    [],
+    0.75,
+  ),
+)
 const mesh = meshFrame(frame)
 const report: SolverReport = { method: 'test-start-mesh', iterations: 0, residual: 0, converged: true, ms: 0 }
 const result = toSurfaceResult(mesh, computeFigures(mesh, frame), report)
@@ -30,7 +36,11 @@ describe('exports', () => {
     expect(faces.length).toBe(result.triangles.length)
     const [a, b, c] = result.triangles[0]!
     expect(faces[0]).toBe(`f ${a + 1} ${b + 1} ${c + 1}`)
-    const v1 = lines.find((l) => l.startsWith('v '))!.split(' ').slice(1).map(Number)
+    const v1 = lines
+      .find((l) => l.startsWith('v '))!
+      .split(' ')
+      .slice(1)
+      .map(Number)
     expect(v1).toEqual(result.vertices[0]!.map((x) => expect.closeTo(x, 9)))
   })
 
@@ -49,7 +59,12 @@ describe('exports', () => {
   })
 
   it('figures CSV: caution first, then the report tables with their figures and frame points', () => {
-    const csv = figuresToCsv({ frame, figures: result.figures, solver: report, pins: [] }, 'Checked by a qualified engineer.').trim().split('\n')
+    const csv = figuresToCsv(
+      { frame, figures: result.figures, solver: report, pins: [] },
+      'Checked by a qualified engineer.',
+    )
+      .trim()
+      .split('\n')
     expect(csv[0]).toBe('# Checked by a qualified engineer.')
     const area = csv.find((l) => l.startsWith('Fabric area,'))!.split(',')
     expect(Number(area[1])).toBeCloseTo(result.figures.area, 2)

@@ -18,7 +18,10 @@ function withHeights(u: (x: number, y: number) => number): MembraneMesh {
 
 describe('figures on analytic surfaces', () => {
   it('flat plane: area = plan area, flatShare = 1, no pockets, no anticlastic area', () => {
-    const f = computeFigures(withHeights(() => 1.5), frame)
+    const f = computeFigures(
+      withHeights(() => 1.5),
+      frame,
+    )
     expect(f.area).toBeCloseTo(64, 9)
     expect(f.planArea).toBeCloseTo(64, 9)
     expect(f.perimeter).toBeCloseTo(32, 9)
@@ -30,8 +33,12 @@ describe('figures on analytic surfaces', () => {
   })
 
   it('tilted plane: area = |n|·plan area and slope = atan|∇z| on every face (elementary geometry)', () => {
-    const a = 0.3, b = -0.1
-    const f = computeFigures(withHeights((x, y) => a * x + b * y), frame)
+    const a = 0.3,
+      b = -0.1
+    const f = computeFigures(
+      withHeights((x, y) => a * x + b * y),
+      frame,
+    )
     expect(f.area).toBeCloseTo(64 * Math.sqrt(1 + a * a + b * b), 9)
     const slope = (Math.atan(Math.hypot(a, b)) * 180) / Math.PI
     expect(f.slopeRange[0]).toBeCloseTo(slope, 9)
@@ -52,13 +59,15 @@ describe('figures on analytic surfaces', () => {
     const f = computeFigures(cap, frame)
     // Gauss–Bonnet: the angle defect at a vertex is the Gaussian curvature integrated over its
     // share of the surface, and K = 1/R² everywhere on a sphere of radius R (differential geometry).
-    const V = cap.vertices, T = cap.triangles
+    const V = cap.vertices,
+      T = cap.triangles
     const boundary = Array.from(cap.vertexLoops, (l) => (l >= 0 ? 1 : 0))
     const defects = vertexAngleDefects(new Float64Array(V.length / 3), V, T, boundary)
     const share = new Float64Array(V.length / 3)
     const areas = faceAreas(new Float64Array(T.length / 3), V, T)
     for (let t = 0; t < T.length / 3; t++) for (let k = 0; k < 3; k++) share[T[3 * t + k]!]! += areas[t]! / 3
-    let defectSum = 0, interiorArea = 0
+    let defectSum = 0,
+      interiorArea = 0
     for (let v = 0; v < share.length; v++) {
       if (boundary[v]) continue
       expect(defects[v]!).toBeGreaterThan(0)
@@ -72,7 +81,10 @@ describe('figures on analytic surfaces', () => {
   })
 
   it('saddle (hypar): anticlastic everywhere, no ponding pocket', () => {
-    const f = computeFigures(withHeights((x, y) => 0.05 * ((x - c) ** 2 - (y - c) ** 2)), frame)
+    const f = computeFigures(
+      withHeights((x, y) => 0.05 * ((x - c) ** 2 - (y - c) ** 2)),
+      frame,
+    )
     // K = −4k²/(1+|∇z|²)² < 0 for z = k(x² − y²) (differential geometry of graphs)
     expect(f.anticlasticShare).toBeGreaterThan(0.99)
     // a saddle has no interior minimum: water runs off to the boundary
@@ -80,7 +92,10 @@ describe('figures on analytic surfaces', () => {
   })
 
   it('bowl: one ponding pocket at the low point holding the disc below the spill height', () => {
-    const f = computeFigures(withHeights((x, y) => 0.05 * ((x - c) ** 2 + (y - c) ** 2)), frame)
+    const f = computeFigures(
+      withHeights((x, y) => 0.05 * ((x - c) ** 2 + (y - c) ** 2)),
+      frame,
+    )
     expect(f.pondingPockets).toHaveLength(1)
     const p = f.pondingPockets[0]!
     expect([p.x, p.y]).toEqual([c, c].map((v) => expect.closeTo(v, 0)))
@@ -92,8 +107,12 @@ describe('figures on analytic surfaces', () => {
 
 describe('boundary forces', () => {
   it('a flat square under prestress σ pulls each corner by σ·L/2 from each adjacent edge (statics)', () => {
-    const f = computeFigures(withHeights(() => 0), frame)
-    const sigma = 2, L = 8
+    const f = computeFigures(
+      withHeights(() => 0),
+      frame,
+    )
+    const sigma = 2,
+      L = 8
     const byPoint = new Map(f.reactions.map(([, p, fx, fy, fz]) => [p, [fx, fy, fz]]))
     // corner 0 is the lower-left: pulled towards +x by the left edge and +y by the bottom edge
     expect(byPoint.get(0)![0]).toBeCloseTo((sigma * L) / 2, 9)
@@ -107,11 +126,18 @@ describe('boundary forces', () => {
   it('cable figures: length and sag of a circular arc (circle geometry)', () => {
     const cable = parseFrameJson({
       ...frameFile(squareLoop(10), [], 0.25),
-      loops: [{ role: 'outer', points: squareLoop(10), edges: [{ kind: 'cable', tension: 50 }, { kind: 'rigid' }, { kind: 'rigid' }, { kind: 'rigid' }] }],
+      loops: [
+        {
+          role: 'outer',
+          points: squareLoop(10),
+          edges: [{ kind: 'cable', tension: 50 }, { kind: 'rigid' }, { kind: 'rigid' }, { kind: 'rigid' }],
+        },
+      ],
     })
     const m = meshFrame(cable)
     // bend the bottom edge (y = 0, chord 10 m) into an arc of radius r = T/σ = 50/2 = 25 m inward
-    const r = 25, sag = r - Math.sqrt(r * r - 25)
+    const r = 25,
+      sag = r - Math.sqrt(r * r - 25)
     const V = Float64Array.from(m.vertices)
     for (let v = 0; v < V.length / 3; v++) {
       if (m.vertexLoops[v] !== 0 || m.vertexEdges[v] !== 0 || m.vertexPoints[v] === 0) continue

@@ -6,7 +6,12 @@ export type Pt = { x: number; y: number; z: number }
 
 /** A square of side s with lower-left corner (x0, y0), counter-clockwise, heights from z(i). */
 export function squareLoop(s: number, x0 = 0, y0 = 0, z: (i: number) => number = () => 0): Pt[] {
-  return [[0, 0], [s, 0], [s, s], [0, s]].map(([x, y], i) => ({ x: x0 + x!, y: y0 + y!, z: z(i) }))
+  return [
+    [0, 0],
+    [s, 0],
+    [s, s],
+    [0, s],
+  ].map(([x, y], i) => ({ x: x0 + x!, y: y0 + y!, z: z(i) }))
 }
 
 /** n points on a circle of radius r about (cx, cy) at height z, clockwise when cw. */
@@ -17,7 +22,12 @@ export function circleLoop(n: number, r: number, cx = 0, cy = 0, z = 0, cw = fal
   })
 }
 
-export function frameFile(outer: Pt[], holes: Pt[][] = [], edgeLength = 0.5, extra: Record<string, unknown> = {}): Record<string, unknown> {
+export function frameFile(
+  outer: Pt[],
+  holes: Pt[][] = [],
+  edgeLength = 0.5,
+  extra: Record<string, unknown> = {},
+): Record<string, unknown> {
   return {
     format: 'veilroom-frame',
     version: 1,

@@ -28,7 +28,10 @@ describe('CSV frames', () => {
       '1,6,4,3',
     ].join('\n')
     const f = parseFrameCsv(text, { edgeLength: 0.4, prestress: { warp: 2, fill: 2 } })
-    expect(f.loops.map((l) => [l.role, l.points.length])).toEqual([['outer', 4], ['hole', 4]])
+    expect(f.loops.map((l) => [l.role, l.points.length])).toEqual([
+      ['outer', 4],
+      ['hole', 4],
+    ])
     expect(f.loops[0]!.edges[1]).toEqual({ kind: 'cable', tension: 40 })
     expect(f.loops[0]!.edges[2]).toEqual({ kind: 'rigid' })
     expect(f.loops[1]!.points[2]).toMatchObject({ x: 6, y: 6, z: 3 })
@@ -39,25 +42,60 @@ describe('CSV frames', () => {
   })
 
   it('names line and column for bad cells', () => {
-    expect(csvRefusal('loop,x,y,z\n0,0,0,0\n0,1,0,0\n0,1,abc,0\n')).toMatchObject({ code: 'invalid-field', field: 'line 4, column y' })
-    expect(csvRefusal('0,0,0,0\n0,1,0,0\n0,1,1,Infinity\n')).toMatchObject({ code: 'not-finite', field: 'line 3, column z' })
-    expect(csvRefusal('0,0,0,0\n0,1,0,0,strap\n0,1,1,0\n')).toMatchObject({ code: 'unknown-edge-kind', field: 'line 2, column edge' })
+    expect(csvRefusal('loop,x,y,z\n0,0,0,0\n0,1,0,0\n0,1,abc,0\n')).toMatchObject({
+      code: 'invalid-field',
+      field: 'line 4, column y',
+    })
+    expect(csvRefusal('0,0,0,0\n0,1,0,0\n0,1,1,Infinity\n')).toMatchObject({
+      code: 'not-finite',
+      field: 'line 3, column z',
+    })
+    expect(csvRefusal('0,0,0,0\n0,1,0,0,strap\n0,1,1,0\n')).toMatchObject({
+      code: 'unknown-edge-kind',
+      field: 'line 2, column edge',
+    })
     expect(csvRefusal('0,0,0\n')).toMatchObject({ code: 'csv-syntax', field: 'line 1' })
     expect(csvRefusal('x,0,0,0\n')).toMatchObject({ code: 'csv-syntax', field: 'line 1, column loop' })
   })
 
   it('maps geometric errors back to CSV lines', () => {
     // cable without tension on the row at line 3
-    expect(csvRefusal('0,0,0,0\n0,4,0,0\n0,4,4,0,cable\n0,0,4,0\n')).toMatchObject({ code: 'cable-tension', field: 'line 3, column tension' })
+    expect(csvRefusal('0,0,0,0\n0,4,0,0\n0,4,4,0,cable\n0,0,4,0\n')).toMatchObject({
+      code: 'cable-tension',
+      field: 'line 3, column tension',
+    })
     // the repeated point is the row at line 4
-    expect(csvRefusal('0,0,0,0\n0,4,0,0\n0,4,4,0\n0,4,4,1\n0,0,4,0\n')).toMatchObject({ code: 'repeated-point', field: 'line 4, column x' })
+    expect(csvRefusal('0,0,0,0\n0,4,0,0\n0,4,4,0\n0,4,4,1\n0,0,4,0\n')).toMatchObject({
+      code: 'repeated-point',
+      field: 'line 4, column x',
+    })
   })
 })
 
 describe('round trips', () => {
-  const file = frameFile(squareLoop(12, 3, -2, (i) => i), [circleLoop(9, 1.5, 9, 4, 5, true)], 0.3)
+  const file = frameFile(
+    squareLoop(12, 3, -2, (i) => i),
+    [circleLoop(9, 1.5, 9, 4, 5, true)],
+    0.3,
+  )
   it('JSON export re-imports unchanged', () => {
-    const f = parseFrameJson({ ...file, prestress: { warp: 4, fill: 2.5, warpAngle: -35 }, loops: [{ role: 'outer', points: squareLoop(12, 3, -2, (i) => i), edges: [{ kind: 'cable', tension: 12.5 }, { kind: 'rigid', tension: 4 }, { kind: 'rigid' }, { kind: 'rigid' }] }, (file.loops as unknown[])[1]] })
+    const f = parseFrameJson({
+      ...file,
+      prestress: { warp: 4, fill: 2.5, warpAngle: -35 },
+      loops: [
+        {
+          role: 'outer',
+          points: squareLoop(12, 3, -2, (i) => i),
+          edges: [
+            { kind: 'cable', tension: 12.5 },
+            { kind: 'rigid', tension: 4 },
+            { kind: 'rigid' },
+            { kind: 'rigid' },
+          ],
+        },
+        (file.loops as unknown[])[1],
+      ],
+    })
     const again = parseFrameJson(frameToJson(f))
     expect(again).toEqual(f)
     expect(frameToJson(again)).toBe(frameToJson(f))
@@ -68,7 +106,9 @@ describe('round trips', () => {
   it('CSV export re-imports the same geometry and edges', () => {
     const f = parseFrameJson(file)
     const back = parseFrameCsv(frameToCsv(f), { edgeLength: f.mesh.edgeLength, prestress: f.prestress })
-    expect(back.loops.map((l) => l.points.map(({ x, y, z }) => [x, y, z]))).toEqual(f.loops.map((l) => l.points.map(({ x, y, z }) => [x, y, z])))
+    expect(back.loops.map((l) => l.points.map(({ x, y, z }) => [x, y, z]))).toEqual(
+      f.loops.map((l) => l.points.map(({ x, y, z }) => [x, y, z])),
+    )
     expect(back.loops.map((l) => l.edges)).toEqual(f.loops.map((l) => l.edges))
   })
 })

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { FrameError, parseFrameJson, frameNeedsSpatialSolve, frameNeedsParametricMesh, frameIsHeightField } from '../../shared/frame'
+import {
+  FrameError,
+  parseFrameJson,
+  frameNeedsSpatialSolve,
+  frameNeedsParametricMesh,
+  frameIsHeightField,
+} from '../../shared/frame'
 import { circleLoop, frameFile, squareLoop } from './frame-fixtures'
 
 /** Run the parser and return the FrameError it throws (fails the test when none). */
@@ -26,10 +32,19 @@ describe('frame validation names the field and the reason', () => {
 
   it('warp direction: kept as given, 0 when left out, refused when not a finite angle', () => {
     const square = { role: 'outer', points: squareLoop(4) }
-    expect(parseFrameJson({ prestress: { warp: 4, fill: 2, warpAngle: 30 }, loops: [square] }).prestress).toEqual({ warp: 4, fill: 2, warpAngle: 30 })
+    expect(parseFrameJson({ prestress: { warp: 4, fill: 2, warpAngle: 30 }, loops: [square] }).prestress).toEqual({
+      warp: 4,
+      fill: 2,
+      warpAngle: 30,
+    })
     expect(parseFrameJson({ prestress: { warp: 4, fill: 2 }, loops: [square] }).prestress.warpAngle).toBe(0)
-    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: 'east' }, loops: [square] }).field).toBe('prestress.warpAngle')
-    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: Infinity }, loops: [square] })).toMatchObject({ code: 'not-finite', field: 'prestress.warpAngle' })
+    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: 'east' }, loops: [square] }).field).toBe(
+      'prestress.warpAngle',
+    )
+    expect(refusal({ prestress: { warp: 4, fill: 2, warpAngle: Infinity }, loops: [square] })).toMatchObject({
+      code: 'not-finite',
+      field: 'prestress.warpAngle',
+    })
   })
 
   it('fewer than 3 points', () => {
@@ -53,7 +68,12 @@ describe('frame validation names the field and the reason', () => {
   })
 
   it('self-crossing loop (bow tie)', () => {
-    const pts = [{ x: 0, y: 0, z: 0 }, { x: 4, y: 4, z: 0 }, { x: 4, y: 0, z: 0 }, { x: 0, y: 4, z: 0 }]
+    const pts = [
+      { x: 0, y: 0, z: 0 },
+      { x: 4, y: 4, z: 0 },
+      { x: 4, y: 0, z: 0 },
+      { x: 0, y: 4, z: 0 },
+    ]
     const e = refusal(frameFile(pts))
     expect(e.code).toBe('self-crossing')
     expect(e.field).toMatch(/^loops\[0\]\.edges\[\d\]$/)
@@ -76,22 +96,46 @@ describe('frame validation names the field and the reason', () => {
   it('cable tension missing or not positive, unknown edge kind', () => {
     const edges = (e1: unknown) => [{ kind: 'rigid' }, e1, { kind: 'rigid' }, { kind: 'rigid' }]
     const base = frameFile(squareLoop(4))
-    const withEdges = (e1: unknown) => ({ ...base, loops: [{ role: 'outer', points: squareLoop(4), edges: edges(e1) }] })
-    expect(refusal(withEdges({ kind: 'cable' }))).toMatchObject({ code: 'cable-tension', field: 'loops[0].edges[1].tension' })
-    expect(refusal(withEdges({ kind: 'cable', tension: 0 }))).toMatchObject({ code: 'cable-tension', field: 'loops[0].edges[1].tension' })
+    const withEdges = (e1: unknown) => ({
+      ...base,
+      loops: [{ role: 'outer', points: squareLoop(4), edges: edges(e1) }],
+    })
+    expect(refusal(withEdges({ kind: 'cable' }))).toMatchObject({
+      code: 'cable-tension',
+      field: 'loops[0].edges[1].tension',
+    })
+    expect(refusal(withEdges({ kind: 'cable', tension: 0 }))).toMatchObject({
+      code: 'cable-tension',
+      field: 'loops[0].edges[1].tension',
+    })
     expect(refusal(withEdges({ kind: 'cable', tension: -5 })).reason).toMatch(/> 0 kN/)
-    expect(refusal(withEdges({ kind: 'rope' }))).toMatchObject({ code: 'unknown-edge-kind', field: 'loops[0].edges[1].kind' })
+    expect(refusal(withEdges({ kind: 'rope' }))).toMatchObject({
+      code: 'unknown-edge-kind',
+      field: 'loops[0].edges[1].kind',
+    })
   })
 
   it('prestress and edge length must be positive', () => {
-    expect(refusal(frameFile(squareLoop(4), [], 0.5, { prestress: { warp: 0, fill: 3 } }))).toMatchObject({ code: 'prestress', field: 'prestress.warp' })
-    expect(refusal(frameFile(squareLoop(4), [], 0.5, { prestress: { warp: 3, fill: -1 } }))).toMatchObject({ code: 'prestress', field: 'prestress.fill' })
+    expect(refusal(frameFile(squareLoop(4), [], 0.5, { prestress: { warp: 0, fill: 3 } }))).toMatchObject({
+      code: 'prestress',
+      field: 'prestress.warp',
+    })
+    expect(refusal(frameFile(squareLoop(4), [], 0.5, { prestress: { warp: 3, fill: -1 } }))).toMatchObject({
+      code: 'prestress',
+      field: 'prestress.fill',
+    })
     expect(refusal(frameFile(squareLoop(4), [], 0))).toMatchObject({ code: 'edge-length', field: 'mesh.edgeLength' })
   })
 
   it('limits: too many frame points, mesh too fine', () => {
-    expect(refusal(frameFile(circleLoop(2001, 100)))).toMatchObject({ code: 'too-many-points', field: 'loops[0].points' })
-    expect(refusal(frameFile(circleLoop(1000, 50), [circleLoop(1001, 10, 0, 0, 0, true)], 5))).toMatchObject({ code: 'too-many-points', field: 'loops' })
+    expect(refusal(frameFile(circleLoop(2001, 100)))).toMatchObject({
+      code: 'too-many-points',
+      field: 'loops[0].points',
+    })
+    expect(refusal(frameFile(circleLoop(1000, 50), [circleLoop(1001, 10, 0, 0, 0, true)], 5))).toMatchObject({
+      code: 'too-many-points',
+      field: 'loops',
+    })
     // 100 m × 100 m at h = 0.2 m: 10⁴ / (0.866 · 0.04) ≈ 289 000 vertices > 100 000 (hexagonal lattice, elementary geometry)
     const fine = refusal(frameFile(squareLoop(100), [], 0.2))
     expect([fine.code, fine.field]).toEqual(['mesh-too-fine', 'mesh.edgeLength'])
@@ -100,16 +144,28 @@ describe('frame validation names the field and the reason', () => {
 
   it('exactly one outer loop, listed first', () => {
     const file = frameFile(squareLoop(4))
-    const twoOuter = { ...file, loops: [{ role: 'outer', points: squareLoop(4) }, { role: 'outer', points: squareLoop(1, 1, 1) }] }
+    const twoOuter = {
+      ...file,
+      loops: [
+        { role: 'outer', points: squareLoop(4) },
+        { role: 'outer', points: squareLoop(1, 1, 1) },
+      ],
+    }
     expect(refusal(twoOuter)).toMatchObject({ code: 'outer-loop-count', field: 'loops' })
     const noOuter = { ...file, loops: [{ role: 'hole', points: squareLoop(4) }] }
     expect(refusal(noOuter).code).toBe('outer-loop-count')
   })
 
   it('schema errors name the path', () => {
-    expect(refusal({ loops: [{ role: 'outer', points: [{ x: 0, y: 0 }] }] })).toMatchObject({ code: 'invalid-field', field: 'loops[0].points[0].z' })
+    expect(refusal({ loops: [{ role: 'outer', points: [{ x: 0, y: 0 }] }] })).toMatchObject({
+      code: 'invalid-field',
+      field: 'loops[0].points[0].z',
+    })
     expect(refusal('{ not json')).toMatchObject({ code: 'invalid-json' })
-    const e = refusal({ ...frameFile(squareLoop(4)), loops: [{ role: 'outer', points: squareLoop(4), edges: [{ kind: 'rigid' }] }] })
+    const e = refusal({
+      ...frameFile(squareLoop(4)),
+      loops: [{ role: 'outer', points: squareLoop(4), edges: [{ kind: 'rigid' }] }],
+    })
     expect([e.code, e.field]).toEqual(['invalid-field', 'loops[0].edges'])
   })
 })
@@ -132,7 +188,13 @@ describe('spatial rule (documented in shared/frame/validate.ts)', () => {
     expect(frameIsHeightField(f)).toBe(true)
     const withCable = parseFrameJson({
       ...frameFile(squareLoop(4)),
-      loops: [{ role: 'outer', points: squareLoop(4), edges: [{ kind: 'cable', tension: 10 }, { kind: 'rigid' }, { kind: 'rigid' }, { kind: 'rigid' }] }],
+      loops: [
+        {
+          role: 'outer',
+          points: squareLoop(4),
+          edges: [{ kind: 'cable', tension: 10 }, { kind: 'rigid' }, { kind: 'rigid' }, { kind: 'rigid' }],
+        },
+      ],
     })
     expect(frameNeedsSpatialSolve(withCable)).toBe(true)
     expect(frameNeedsParametricMesh(withCable)).toBe(false)

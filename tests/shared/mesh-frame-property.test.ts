@@ -18,20 +18,35 @@ describe('meshFrame on random star-shaped frames', () => {
     fc.assert(
       fc.property(starFrame, ({ radii, heights, hole, h, cx }) => {
         const n = radii.length
-        const outer = radii.map((r, i) => ({ x: cx + r * Math.cos((2 * Math.PI * i) / n), y: r * Math.sin((2 * Math.PI * i) / n), z: heights[i]! }))
-        const ring = Array.from({ length: 6 }, (_, i) => ({ x: cx + 0.8 * Math.cos((-2 * Math.PI * i) / 6), y: 0.8 * Math.sin((-2 * Math.PI * i) / 6), z: 3 }))
-        const frame = parseFrameJson({ mesh: { edgeLength: h }, loops: [{ role: 'outer', points: outer }, ...(hole ? [{ role: 'hole', points: ring }] : [])] })
+        const outer = radii.map((r, i) => ({
+          x: cx + r * Math.cos((2 * Math.PI * i) / n),
+          y: r * Math.sin((2 * Math.PI * i) / n),
+          z: heights[i]!,
+        }))
+        const ring = Array.from({ length: 6 }, (_, i) => ({
+          x: cx + 0.8 * Math.cos((-2 * Math.PI * i) / 6),
+          y: 0.8 * Math.sin((-2 * Math.PI * i) / 6),
+          z: 3,
+        }))
+        const frame = parseFrameJson({
+          mesh: { edgeLength: h },
+          loops: [{ role: 'outer', points: outer }, ...(hole ? [{ role: 'hole', points: ring }] : [])],
+        })
         const m = meshFrame(frame)
         const nV = m.vertices.length / 3
         const edges = new Set<number>()
         let area = 0
         for (let t = 0; t < m.triangles.length; t += 3) {
           const [a, b, c] = [0, 1, 2].map((k) => 3 * m.triangles[t + k]!) as [number, number, number]
-          const s = 0.5 * ((m.vertices[b]! - m.vertices[a]!) * (m.vertices[c + 1]! - m.vertices[a + 1]!) - (m.vertices[b + 1]! - m.vertices[a + 1]!) * (m.vertices[c]! - m.vertices[a]!))
+          const s =
+            0.5 *
+            ((m.vertices[b]! - m.vertices[a]!) * (m.vertices[c + 1]! - m.vertices[a + 1]!) -
+              (m.vertices[b + 1]! - m.vertices[a + 1]!) * (m.vertices[c]! - m.vertices[a]!))
           expect(s).toBeGreaterThan(0)
           area += s
           for (let k = 0; k < 3; k++) {
-            const p = m.triangles[t + k]!, q = m.triangles[t + ((k + 1) % 3)]!
+            const p = m.triangles[t + k]!,
+              q = m.triangles[t + ((k + 1) % 3)]!
             edges.add(Math.min(p, q) * nV + Math.max(p, q))
           }
         }

@@ -6,21 +6,30 @@ import { circleLoop, frameFile, squareLoop } from './frame-fixtures'
 describe('meshParametric for two rings one above the other', () => {
   // rings of radius 1 a gap 1 apart (the catenoid case of CHECKS.md), the upper ring turned and
   // listed the other way round to exercise the matching of the two loops
-  const f = parseFrameJson(frameFile(circleLoop(32, 1, 2, -1, 0), [circleLoop(20, 1, 2, -1, 1, true).map((p, i, a) => a[(i + 3) % a.length]!)], 0.1))
+  const f = parseFrameJson(
+    frameFile(
+      circleLoop(32, 1, 2, -1, 0),
+      [circleLoop(20, 1, 2, -1, 1, true).map((p, i, a) => a[(i + 3) % a.length]!)],
+      0.1,
+    ),
+  )
   const p = meshParametric(f)
   const m = p.mesh
   const nV = m.vertices.length / 3
 
   it('is an annulus: V − E + F = 0 (Euler–Poincaré) and every uv triangle counter-clockwise', () => {
     const edges = new Set<number>()
-    for (let t = 0; t < m.triangles.length; t += 3) for (let k = 0; k < 3; k++) {
-      const a = m.triangles[t + k]!, b = m.triangles[t + ((k + 1) % 3)]!
-      edges.add(Math.min(a, b) * nV + Math.max(a, b))
-    }
+    for (let t = 0; t < m.triangles.length; t += 3)
+      for (let k = 0; k < 3; k++) {
+        const a = m.triangles[t + k]!,
+          b = m.triangles[t + ((k + 1) % 3)]!
+        edges.add(Math.min(a, b) * nV + Math.max(a, b))
+      }
     expect(nV - edges.size + m.triangles.length / 3).toBe(0)
     for (let t = 0; t < m.triangles.length; t += 3) {
       const [a, b, c] = [0, 1, 2].map((k) => 2 * m.triangles[t + k]!) as [number, number, number]
-      const s = (p.uv[b]! - p.uv[a]!) * (p.uv[c + 1]! - p.uv[a + 1]!) - (p.uv[b + 1]! - p.uv[a + 1]!) * (p.uv[c]! - p.uv[a]!)
+      const s =
+        (p.uv[b]! - p.uv[a]!) * (p.uv[c + 1]! - p.uv[a + 1]!) - (p.uv[b + 1]! - p.uv[a + 1]!) * (p.uv[c]! - p.uv[a]!)
       expect(s).toBeGreaterThan(0)
     }
     expect(nV).toBe(p.rings * p.perRing)
@@ -49,7 +58,12 @@ describe('meshParametric for two rings one above the other', () => {
 })
 
 describe('remapMesh', () => {
-  const file = (dx: number) => frameFile(squareLoop(8, 0, 0, (i) => (i % 2 ? 2 : 0)).map((q, i) => (i === 2 ? { ...q, x: q.x + dx, y: q.y + dx } : q)), [], 0.3)
+  const file = (dx: number) =>
+    frameFile(
+      squareLoop(8, 0, 0, (i) => (i % 2 ? 2 : 0)).map((q, i) => (i === 2 ? { ...q, x: q.x + dx, y: q.y + dx } : q)),
+      [],
+      0.3,
+    )
   const base = meshFrame(parseFrameJson(file(0)))
 
   it('keeps the connectivity and moves boundary vertices onto the new edges', () => {
@@ -63,7 +77,8 @@ describe('remapMesh', () => {
     // every boundary vertex lies on its new frame edge (distance to the line ≈ 0)
     for (const v of m.boundaryLoops[0]!) {
       const e = m.vertexEdges[v]!
-      const a = f.loops[0]!.points[e]!, b = f.loops[0]!.points[(e + 1) % 4]!
+      const a = f.loops[0]!.points[e]!,
+        b = f.loops[0]!.points[(e + 1) % 4]!
       const cross = (b.x - a.x) * (m.vertices[3 * v + 1]! - a.y) - (b.y - a.y) * (m.vertices[3 * v]! - a.x)
       expect(Math.abs(cross) / Math.hypot(b.x - a.x, b.y - a.y)).toBeLessThan(1e-9)
     }
@@ -71,7 +86,12 @@ describe('remapMesh', () => {
   })
 
   it('refuses a changed structure or a move that would turn triangles over', () => {
-    expect(remapMesh(base, parseFrameJson({ ...file(0), loops: [{ role: 'outer', points: [...squareLoop(8), { x: -1, y: 4, z: 0 }] }] }))).toBeNull()
+    expect(
+      remapMesh(
+        base,
+        parseFrameJson({ ...file(0), loops: [{ role: 'outer', points: [...squareLoop(8), { x: -1, y: 4, z: 0 }] }] }),
+      ),
+    ).toBeNull()
     expect(remapMesh(base, parseFrameJson(file(-5)))).toBeNull()
   })
 })

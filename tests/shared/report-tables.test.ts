@@ -16,9 +16,22 @@ function squareInput(): ReportInput {
   const frame = parseFrameJson(file)
   const figures = computeFigures(meshFrame(frame), frame)
   const pins = [
-    { x: 11, y: 21, z: 0, body: 'Check the corner plate, please', author: { name: 'Ada Reviewer' }, createdAt: '2026-12-01T09:30:00.000Z', replies: [] },
     {
-      x: 13, y: 23, z: 0, body: 'Ring height "TBC", see note', author: null, createdAt: '2026-12-02T10:00:00.000Z',
+      x: 11,
+      y: 21,
+      z: 0,
+      body: 'Check the corner plate, please',
+      author: { name: 'Ada Reviewer' },
+      createdAt: '2026-12-01T09:30:00.000Z',
+      replies: [],
+    },
+    {
+      x: 13,
+      y: 23,
+      z: 0,
+      body: 'Ring height "TBC", see note',
+      author: null,
+      createdAt: '2026-12-02T10:00:00.000Z',
       replies: [{ body: 'Raised, see v2', author: { name: 'Bo Editor' }, createdAt: '2026-12-02T11:15:00.000Z' }],
     },
   ]
@@ -56,7 +69,13 @@ describe('report tables', () => {
 
   it('angle from horizontal is positive for an upward pull (atan2 of Fz over the plan component)', () => {
     const input = squareInput()
-    const figures = { ...input.figures, reactions: [[0, 2, 3, 4, 5] as [number, number, number, number, number], [0, 3, 0, 0, -2] as [number, number, number, number, number]] }
+    const figures = {
+      ...input.figures,
+      reactions: [
+        [0, 2, 3, 4, 5] as [number, number, number, number, number],
+        [0, 3, 0, 0, -2] as [number, number, number, number, number],
+      ],
+    }
     const rows = table(reportTables({ ...input, figures }), 'forces').rows
     expect(rows[0]).toEqual(['Outer P3', 3, 4, 5, expect.closeTo(Math.sqrt(50), 12), expect.closeTo(45, 12)])
     expect(rows[1]![5]).toBeCloseTo(-90, 12)
@@ -64,8 +83,12 @@ describe('report tables', () => {
 
   it('lists the inputs: prestress, warp direction when present, element size, cable tensions, solver', () => {
     const input = squareInput()
-    const loops = input.frame.loops.map((l, i) => (i === 0 ? { ...l, edges: l.edges.map((e, k) => (k === 1 ? { kind: 'cable' as const, tension: 25 } : e)) } : l))
-    const rows = table(reportTables({ ...input, frame: { ...input.frame, loops } }), 'inputs').rows.map((r) => r.join(' '))
+    const loops = input.frame.loops.map((l, i) =>
+      i === 0 ? { ...l, edges: l.edges.map((e, k) => (k === 1 ? { kind: 'cable' as const, tension: 25 } : e)) } : l,
+    )
+    const rows = table(reportTables({ ...input, frame: { ...input.frame, loops } }), 'inputs').rows.map((r) =>
+      r.join(' '),
+    )
     expect(rows).toContain('Prestress, warp 3.00 kN/m')
     expect(rows).toContain('Element size (target edge length) 0.400 m')
     expect(rows).toContain('Cable tension Outer E2 25.0 kN')
@@ -74,7 +97,11 @@ describe('report tables', () => {
     // a snapshot saved before frames carried a warp direction shows none rather than a guess
     const older = reportTables({ ...input, frame: { ...input.frame, prestress: { warp: 3, fill: 3 } } })
     expect(table(older, 'inputs').rows.some((r) => String(r[0]).startsWith('Warp direction'))).toBe(false)
-    const angled = reportTables({ ...input, frame: { ...input.frame, prestress: { warp: 4, fill: 2, warpAngle: 30 } }, solver: { ...solver, stressDeviation: { max: 3.25, rms: 1.04 } } })
+    const angled = reportTables({
+      ...input,
+      frame: { ...input.frame, prestress: { warp: 4, fill: 2, warpAngle: 30 } },
+      solver: { ...solver, stressDeviation: { max: 3.25, rms: 1.04 } },
+    })
     const angledRows = table(angled, 'inputs').rows.map((r) => r.join(' '))
     expect(angledRows).toContain('Warp direction in plan (counter-clockwise from +x) 30.0 °')
     expect(angledRows).toContain('Settled stress off warp/fill, largest (face) 3.3 %')
@@ -83,7 +110,16 @@ describe('report tables', () => {
 
   it('numbers open pins oldest first with author, date, text and replies', () => {
     const rows = table(reportTables(squareInput()), 'pins').rows
-    expect(rows[0]).toEqual(['1', 11, 21, 0, 'Ada Reviewer', '2026-12-01 09:30 UTC', 'Check the corner plate, please', null])
+    expect(rows[0]).toEqual([
+      '1',
+      11,
+      21,
+      0,
+      'Ada Reviewer',
+      '2026-12-01 09:30 UTC',
+      'Check the corner plate, please',
+      null,
+    ])
     expect(rows[1]![4]).toBe('a former member')
     expect(rows[1]![7]).toBe('Bo Editor (2026-12-02 11:15 UTC): Raised, see v2')
   })
@@ -91,7 +127,9 @@ describe('report tables', () => {
 
 /** RFC 4180 fields of one CSV line (quotes doubled inside quoted fields). */
 function csvFields(line: string): string[] {
-  return [...line.matchAll(/("(?:[^"]|"")*"|[^,]*)(,|$)/g)].slice(0, -1).map((m) => m[1]!.replace(/^"|"$/g, '').replace(/""/g, '"'))
+  return [...line.matchAll(/("(?:[^"]|"")*"|[^,]*)(,|$)/g)]
+    .slice(0, -1)
+    .map((m) => m[1]!.replace(/^"|"$/g, '').replace(/""/g, '"'))
 }
 
 describe('figures CSV', () => {
@@ -102,7 +140,10 @@ describe('figures CSV', () => {
     expect(sections[0]).toBe('# Preliminary: check with an engineer.')
     const titles = sections.slice(1).map((s) => s.split('\n')[0])
     expect(titles).toEqual(reportTables(input).map((t) => `# ${t.title}`))
-    const points = sections.find((s) => s.startsWith('# Frame points\n'))!.split('\n').filter((l) => !l.startsWith('#'))
+    const points = sections
+      .find((s) => s.startsWith('# Frame points\n'))!
+      .split('\n')
+      .filter((l) => !l.startsWith('#'))
     expect(points[0]).toBe('Point,x (m),y (m),z (m),Edge from here')
     expect(csvFields(points[1]!)).toEqual(['Outer P1', '10.000', '20.000', '0.000', 'Outer E1 rigid'])
     const pins = sections.find((s) => s.startsWith('# Open pins\n'))!

@@ -33,7 +33,9 @@ describe('room document', () => {
       writeFrame(doc, frame)
       const raw = readRawFrame(doc) as Frame
       expect(raw.loops.map((l) => l.points)).toEqual(frame.loops.map((l) => l.points))
-      expect(raw.loops.map((l) => l.edges)).toEqual(frame.loops.map((l) => l.edges.map((e) => (e.kind === 'cable' ? e : { kind: e.kind }))))
+      expect(raw.loops.map((l) => l.edges)).toEqual(
+        frame.loops.map((l) => l.edges.map((e) => (e.kind === 'cable' ? e : { kind: e.kind }))),
+      )
       expect(raw.prestress).toEqual(frame.prestress)
     }
   })
@@ -82,7 +84,11 @@ describe('room document', () => {
     deletePoint(a, loop, points[0]!)
     expect(deletePoint(a, loop, points[1]!)).toBe(false)
     setEdge(a, loop, points[1]!, 'cable', 12)
-    addHole(a, [{ x: 2, y: 2, z: 1 }, { x: 3, y: 2, z: 1 }, { x: 3, y: 3, z: 1 }])
+    addHole(a, [
+      { x: 2, y: 2, z: 1 },
+      { x: 3, y: 2, z: 1 },
+      { x: 3, y: 3, z: 1 },
+    ])
     const f = readRawFrame(a) as Frame
     expect(f.loops[0]!.edges[0]).toEqual({ kind: 'cable', tension: 12 })
     expect(f.loops[1]!.role).toBe('hole')

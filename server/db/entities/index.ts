@@ -13,5 +13,12 @@ import { SnapshotEntity } from './snapshot.js'
 import { PinEntity, PinReplyEntity } from './pin.js'
 
 export const entities = [
-  UserEntity, RoomEntity, MembershipEntity, InviteEntity, RoomDocumentEntity, SnapshotEntity, PinEntity, PinReplyEntity,
+  UserEntity,
+  RoomEntity,
+  MembershipEntity,
+  InviteEntity,
+  RoomDocumentEntity,
+  SnapshotEntity,
+  PinEntity,
+  PinReplyEntity,
 ]

@@ -28,7 +28,13 @@ export interface PinReply {
   author?: User | null
 }
 
-const author = { type: 'many-to-one', target: 'User', joinColumn: { name: 'author_id' }, onDelete: 'SET NULL', nullable: true } as const
+const author = {
+  type: 'many-to-one',
+  target: 'User',
+  joinColumn: { name: 'author_id' },
+  onDelete: 'SET NULL',
+  nullable: true,
+} as const
 
 export const PinEntity = new EntitySchema<Pin>({
   name: 'Pin',

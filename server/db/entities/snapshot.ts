@@ -37,6 +37,12 @@ export const SnapshotEntity = new EntitySchema<Snapshot>({
   },
   relations: {
     room: { type: 'many-to-one', target: 'Room', joinColumn: { name: 'room_id' }, onDelete: 'CASCADE' },
-    author: { type: 'many-to-one', target: 'User', joinColumn: { name: 'author_id' }, onDelete: 'SET NULL', nullable: true },
+    author: {
+      type: 'many-to-one',
+      target: 'User',
+      joinColumn: { name: 'author_id' },
+      onDelete: 'SET NULL',
+      nullable: true,
+    },
   },
 })

@@ -58,7 +58,17 @@ const tables = [
     data mediumtext COLLATE utf8mb4_bin, PRIMARY KEY (session_id)) ENGINE=InnoDB`,
 ]
 
-const dropOrder = ['sessions', 'pin_replies', 'pins', 'snapshots', 'room_documents', 'invites', 'memberships', 'rooms', 'users']
+const dropOrder = [
+  'sessions',
+  'pin_replies',
+  'pins',
+  'snapshots',
+  'room_documents',
+  'invites',
+  'memberships',
+  'rooms',
+  'users',
+]
 
 export class InitialSchema1796169000000 implements MigrationInterface {
   name = 'InitialSchema1796169000000'

@@ -60,7 +60,8 @@ export function createActivityRecorder(opts: {
     try {
       if (p.edit) await repo.recordEdit(roomId, p.edit.userId, p.edit.summary, p.edit.at)
       if (p.solve) {
-        const picture = p.solve.state === 'settled' && p.surface ? surfaceThumbnail(p.surface.vertices, p.surface.triangles) : null
+        const picture =
+          p.solve.state === 'settled' && p.surface ? surfaceThumbnail(p.surface.vertices, p.surface.triangles) : null
         await repo.recordSolve(roomId, p.solve.state, p.solve.reason, picture, p.solve.at)
       }
       changed(roomId)
@@ -103,11 +104,21 @@ export function createActivityRecorder(opts: {
 
   return {
     onRoomEvent(roomId, event, payload) {
-      const e = payload as { state?: string; reason?: string; coarse?: boolean; vertices?: ArrayLike<number>; triangles?: ArrayLike<number> }
+      const e = payload as {
+        state?: string
+        reason?: string
+        coarse?: boolean
+        vertices?: ArrayLike<number>
+        triangles?: ArrayLike<number>
+      }
       if (event === 'surface' && !e.coarse && e.vertices && e.triangles) {
         slot(roomId).surface = { vertices: e.vertices, triangles: e.triangles }
       } else if (event === 'solve:state' && (e.state === 'settled' || e.state === 'unsettled')) {
-        slot(roomId).solve = { state: e.state, reason: e.state === 'unsettled' ? (e.reason ?? 'not-converged') : null, at: new Date() }
+        slot(roomId).solve = {
+          state: e.state,
+          reason: e.state === 'unsettled' ? (e.reason ?? 'not-converged') : null,
+          at: new Date(),
+        }
         later(roomId)
       } else if (event === 'pin:changed' || event === 'pin:deleted') {
         changed(roomId)

@@ -48,18 +48,37 @@ export function activityRepository(ds: DataSource) {
       if (roomIds.length === 0) return out
       const ids = [...roomIds]
       const [changes, pins, solves] = await Promise.all([
-        ds.query(lastChangeSql, [ids, ids, ids, ids, ids]) as Promise<{ room_id: string; at: Date; what: string; by_name: string | null }[]>,
-        ds.query(pinsSql, [userId, userId, ids]) as Promise<{ room_id: string; open_pins: string | number; mine: string | number | null }[]>,
-        ds.query('SELECT room_id, solve_state, solve_reason, thumbnail_at FROM room_activity WHERE room_id IN (?)', [ids]) as Promise<
+        ds.query(lastChangeSql, [ids, ids, ids, ids, ids]) as Promise<
+          { room_id: string; at: Date; what: string; by_name: string | null }[]
+        >,
+        ds.query(pinsSql, [userId, userId, ids]) as Promise<
+          { room_id: string; open_pins: string | number; mine: string | number | null }[]
+        >,
+        ds.query('SELECT room_id, solve_state, solve_reason, thumbnail_at FROM room_activity WHERE room_id IN (?)', [
+          ids,
+        ]) as Promise<
           { room_id: string; solve_state: string | null; solve_reason: string | null; thumbnail_at: Date | null }[]
         >,
       ])
-      for (const id of ids) out.set(id, { lastChange: null, openPins: 0, myOpenPins: 0, solveState: null, solveReason: null, thumbnailAt: null })
+      for (const id of ids)
+        out.set(id, {
+          lastChange: null,
+          openPins: 0,
+          myOpenPins: 0,
+          solveState: null,
+          solveReason: null,
+          thumbnailAt: null,
+        })
       for (const c of changes) out.get(c.room_id)!.lastChange = { at: c.at, by: c.by_name, what: c.what }
-      for (const p of pins) Object.assign(out.get(p.room_id)!, { openPins: Number(p.open_pins), myOpenPins: Number(p.mine ?? 0) })
+      for (const p of pins)
+        Object.assign(out.get(p.room_id)!, { openPins: Number(p.open_pins), myOpenPins: Number(p.mine ?? 0) })
       for (const s of solves) {
         const state = s.solve_state === 'settled' || s.solve_state === 'unsettled' ? s.solve_state : null
-        Object.assign(out.get(s.room_id)!, { solveState: state, solveReason: s.solve_reason, thumbnailAt: s.thumbnail_at })
+        Object.assign(out.get(s.room_id)!, {
+          solveState: state,
+          solveReason: s.solve_reason,
+          thumbnailAt: s.thumbnail_at,
+        })
       }
       return out
     },
@@ -69,7 +88,13 @@ export function activityRepository(ds: DataSource) {
          ON DUPLICATE KEY UPDATE edit_user_id = VALUES(edit_user_id), edit_summary = VALUES(edit_summary), edit_at = VALUES(edit_at)`,
         [roomId, userId, summary.slice(0, 160), at],
       ),
-    recordSolve: (roomId: string, state: 'settled' | 'unsettled', reason: string | null, thumbnail: Buffer | null, at: Date) =>
+    recordSolve: (
+      roomId: string,
+      state: 'settled' | 'unsettled',
+      reason: string | null,
+      thumbnail: Buffer | null,
+      at: Date,
+    ) =>
       ds.query(
         `INSERT INTO room_activity (room_id, solve_state, solve_reason, solved_at, thumbnail, thumbnail_at) VALUES (?, ?, ?, ?, ?, ?)
          ON DUPLICATE KEY UPDATE solve_state = VALUES(solve_state), solve_reason = VALUES(solve_reason), solved_at = VALUES(solved_at),
@@ -77,7 +102,10 @@ export function activityRepository(ds: DataSource) {
         [roomId, state, reason, at, thumbnail, thumbnail ? at : null],
       ),
     async thumbnail(roomId: string): Promise<Buffer | null> {
-      const rows: { thumbnail: Buffer | null }[] = await ds.query('SELECT thumbnail FROM room_activity WHERE room_id = ?', [roomId])
+      const rows: { thumbnail: Buffer | null }[] = await ds.query(
+        'SELECT thumbnail FROM room_activity WHERE room_id = ?',
+        [roomId],
+      )
       return rows[0]?.thumbnail ?? null
     },
   }

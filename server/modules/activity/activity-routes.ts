@@ -8,7 +8,11 @@ import type { RoomsWatch } from './rooms-watch.js'
 /** What the rooms list shows beside each room (the shape of GET /api/activity/rooms). */
 function view(roomId: string, row: RoomActivityRow, people: number) {
   return {
-    lastChange: row.lastChange && { at: row.lastChange.at.toISOString(), by: row.lastChange.by, what: row.lastChange.what },
+    lastChange: row.lastChange && {
+      at: row.lastChange.at.toISOString(),
+      by: row.lastChange.by,
+      what: row.lastChange.what,
+    },
     openPins: row.openPins,
     myOpenPins: row.myOpenPins,
     solve: row.solveState && { state: row.solveState, reason: row.solveReason },
@@ -29,8 +33,15 @@ export function activityRoutes(ds: DataSource, repo: ActivityRepository, watch: 
   }
 
   router.get('/activity/rooms', requireUser, async (req, res) => {
-    const mine: { room_id: string }[] = await ds.query('SELECT room_id FROM memberships WHERE user_id = ?', [req.user!.id])
-    res.json({ rooms: await views(mine.map((m) => m.room_id), req.user!.id) })
+    const mine: { room_id: string }[] = await ds.query('SELECT room_id FROM memberships WHERE user_id = ?', [
+      req.user!.id,
+    ])
+    res.json({
+      rooms: await views(
+        mine.map((m) => m.room_id),
+        req.user!.id,
+      ),
+    })
   })
 
   router.get('/activity/rooms/:id', read, async (req, res) => {

@@ -19,11 +19,22 @@ export interface Activity {
   close(): Promise<void>
 }
 
-export function attachActivity(deps: { realtime: Realtime; dataSource: DataSource; api: Router; writes: RoomWrites; quietMs?: number }): Activity {
+export function attachActivity(deps: {
+  realtime: Realtime
+  dataSource: DataSource
+  api: Router
+  writes: RoomWrites
+  quietMs?: number
+}): Activity {
   const { realtime, dataSource } = deps
   const repo = activityRepository(dataSource)
   const watch = attachRoomsWatch(realtime.io, dataSource)
-  const recorder = createActivityRecorder({ rooms: realtime.rooms, repo, changed: watch.changed, quietMs: deps.quietMs })
+  const recorder = createActivityRecorder({
+    rooms: realtime.rooms,
+    repo,
+    changed: watch.changed,
+    quietMs: deps.quietMs,
+  })
   const unsubscribe = realtime.onRoomEvent(recorder.onRoomEvent)
   const onWrite = (roomId: string) => watch.changed(roomId)
   deps.writes.on('write', onWrite)

@@ -18,12 +18,18 @@ function chunk(type: string, data: Buffer): Buffer {
 
 /** rgb: width×height×3 bytes, rows top to bottom. */
 export function encodePng(width: number, height: number, rgb: Uint8Array): Buffer {
-  if (rgb.length !== width * height * 3) throw new Error(`encodePng: expected ${width * height * 3} bytes, got ${rgb.length}`)
+  if (rgb.length !== width * height * 3)
+    throw new Error(`encodePng: expected ${width * height * 3} bytes, got ${rgb.length}`)
   const header = Buffer.alloc(13)
   header.writeUInt32BE(width, 0)
   header.writeUInt32BE(height, 4)
   header.set([8, 2, 0, 0, 0], 8) // bit depth 8, colour type 2 (RGB), deflate, filter 0, no interlace
   const raw = Buffer.alloc(height * (1 + width * 3))
   for (let y = 0; y < height; y++) raw.set(rgb.subarray(y * width * 3, (y + 1) * width * 3), y * (1 + width * 3) + 1)
-  return Buffer.concat([SIGNATURE, chunk('IHDR', header), chunk('IDAT', deflateSync(raw)), chunk('IEND', Buffer.alloc(0))])
+  return Buffer.concat([
+    SIGNATURE,
+    chunk('IHDR', header),
+    chunk('IDAT', deflateSync(raw)),
+    chunk('IEND', Buffer.alloc(0)),
+  ])
 }

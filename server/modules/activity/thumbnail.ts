@@ -21,17 +21,25 @@ export function surfaceThumbnail(vertices: ArrayLike<number>, triangles: ArrayLi
   const n = Math.floor(vertices.length / 3)
   let [minX, minY, minZ, maxX, maxY, maxZ] = [Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity]
   for (let i = 0; i < n; i++) {
-    const x = vertices[3 * i]!, y = vertices[3 * i + 1]!, z = vertices[3 * i + 2]!
-    minX = Math.min(minX, x); maxX = Math.max(maxX, x)
-    minY = Math.min(minY, y); maxY = Math.max(maxY, y)
-    minZ = Math.min(minZ, z); maxZ = Math.max(maxZ, z)
+    const x = vertices[3 * i]!,
+      y = vertices[3 * i + 1]!,
+      z = vertices[3 * i + 2]!
+    minX = Math.min(minX, x)
+    maxX = Math.max(maxX, x)
+    minY = Math.min(minY, y)
+    maxY = Math.max(maxY, y)
+    minZ = Math.min(minZ, z)
+    maxZ = Math.max(maxZ, z)
   }
   const rgb = new Uint8Array(THUMB_WIDTH * THUMB_HEIGHT * 3)
   for (let p = 0; p < THUMB_WIDTH * THUMB_HEIGHT; p++) rgb.set(PAPER, 3 * p)
   const depth = new Float32Array(THUMB_WIDTH * THUMB_HEIGHT).fill(-Infinity)
   if (n === 0 || !Number.isFinite(minX)) return encodePng(THUMB_WIDTH, THUMB_HEIGHT, rgb)
 
-  const scale = Math.min((THUMB_WIDTH - 2 * MARGIN) / Math.max(maxX - minX, 1e-9), (THUMB_HEIGHT - 2 * MARGIN) / Math.max(maxY - minY, 1e-9))
+  const scale = Math.min(
+    (THUMB_WIDTH - 2 * MARGIN) / Math.max(maxX - minX, 1e-9),
+    (THUMB_HEIGHT - 2 * MARGIN) / Math.max(maxY - minY, 1e-9),
+  )
   const ox = (THUMB_WIDTH - scale * (maxX - minX)) / 2
   const oy = (THUMB_HEIGHT - scale * (maxY - minY)) / 2
   // Plan x to the right, plan y up (image rows grow downwards).
@@ -40,18 +48,23 @@ export function surfaceThumbnail(vertices: ArrayLike<number>, triangles: ArrayLi
   const zSpan = Math.max(maxZ - minZ, 1e-9)
 
   for (let t = 0; t + 2 < triangles.length; t += 3) {
-    const a = triangles[t]!, b = triangles[t + 1]!, c = triangles[t + 2]!
+    const a = triangles[t]!,
+      b = triangles[t + 1]!,
+      c = triangles[t + 2]!
     if (a >= n || b >= n || c >= n) continue
     const shade = lambert(vertices, a, b, c)
     const [ax, ay, bx, by, cx, cy] = [px(a), py(a), px(b), py(b), px(c), py(c)]
     const area = (bx - ax) * (cy - ay) - (cx - ax) * (by - ay)
     if (Math.abs(area) < 1e-12) continue
-    const x0 = Math.max(0, Math.floor(Math.min(ax, bx, cx))), x1 = Math.min(THUMB_WIDTH - 1, Math.ceil(Math.max(ax, bx, cx)))
-    const y0 = Math.max(0, Math.floor(Math.min(ay, by, cy))), y1 = Math.min(THUMB_HEIGHT - 1, Math.ceil(Math.max(ay, by, cy)))
+    const x0 = Math.max(0, Math.floor(Math.min(ax, bx, cx))),
+      x1 = Math.min(THUMB_WIDTH - 1, Math.ceil(Math.max(ax, bx, cx)))
+    const y0 = Math.max(0, Math.floor(Math.min(ay, by, cy))),
+      y1 = Math.min(THUMB_HEIGHT - 1, Math.ceil(Math.max(ay, by, cy)))
     for (let y = y0; y <= y1; y++) {
       for (let x = x0; x <= x1; x++) {
         // Barycentric weights of the pixel centre; a pixel belongs to every triangle that covers it.
-        const sx = x + 0.5, sy = y + 0.5
+        const sx = x + 0.5,
+          sy = y + 0.5
         const w1 = ((bx - sx) * (cy - sy) - (cx - sx) * (by - sy)) / area
         const w2 = ((cx - sx) * (ay - sy) - (ax - sx) * (cy - sy)) / area
         const w3 = 1 - w1 - w2
@@ -70,9 +83,15 @@ export function surfaceThumbnail(vertices: ArrayLike<number>, triangles: ArrayLi
 
 /** Brightness 0.72…1 of a triangle lit from the upper left (steeper faces away from it are darker). */
 function lambert(v: ArrayLike<number>, a: number, b: number, c: number): number {
-  const ux = v[3 * b]! - v[3 * a]!, uy = v[3 * b + 1]! - v[3 * a + 1]!, uz = v[3 * b + 2]! - v[3 * a + 2]!
-  const wx = v[3 * c]! - v[3 * a]!, wy = v[3 * c + 1]! - v[3 * a + 1]!, wz = v[3 * c + 2]! - v[3 * a + 2]!
-  let nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx
+  const ux = v[3 * b]! - v[3 * a]!,
+    uy = v[3 * b + 1]! - v[3 * a + 1]!,
+    uz = v[3 * b + 2]! - v[3 * a + 2]!
+  const wx = v[3 * c]! - v[3 * a]!,
+    wy = v[3 * c + 1]! - v[3 * a + 1]!,
+    wz = v[3 * c + 2]! - v[3 * a + 2]!
+  let nx = uy * wz - uz * wy,
+    ny = uz * wx - ux * wz,
+    nz = ux * wy - uy * wx
   if (nz < 0) [nx, ny, nz] = [-nx, -ny, -nz]
   const len = Math.hypot(nx, ny, nz) || 1
   const light = (-0.45 * nx + 0.45 * ny + 0.77 * nz) / len

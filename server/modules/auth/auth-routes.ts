@@ -43,7 +43,12 @@ export function authRoutes({ auth, passport, csrfToken, onSignOut, limits }: Aut
     key: 'ip',
   })
   // Every attempt counts: a refused one (409 email_taken) tells whether an address has an account.
-  const signUpLimiter = limiter({ what: 'sign-ups from this address', windowMs: HOUR_MS, limit: limits.signUpsPerHour, key: 'ip' })
+  const signUpLimiter = limiter({
+    what: 'sign-ups from this address',
+    windowMs: HOUR_MS,
+    limit: limits.signUpsPerHour,
+    key: 'ip',
+  })
 
   router.get('/csrf', (req, res) => {
     res.json({ token: csrfToken(req) })

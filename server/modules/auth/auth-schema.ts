@@ -1,7 +1,10 @@
 import { z } from 'zod'
 import { nameField } from '../../lib/text-fields.js'
 
-const email = z.email('not a valid e-mail address').max(254).transform((s) => s.trim().toLowerCase())
+const email = z
+  .email('not a valid e-mail address')
+  .max(254)
+  .transform((s) => s.trim().toLowerCase())
 
 export const signUpBody = z.object({
   email,

@@ -53,15 +53,24 @@ export function renderDownload(kind: DownloadKind, data: DownloadData): { body: 
       return { body: toStl(data.surface!), type: 'model/stl' }
     case 'figures.csv':
       return {
-        body: header +
-          figuresToCsv({ frame: data.frame!, figures: data.surface!.figures, solver: data.surface!.solver, pins: data.pins ?? [] }, CAUTION),
+        body:
+          header +
+          figuresToCsv(
+            { frame: data.frame!, figures: data.surface!.figures, solver: data.surface!.solver, pins: data.pins ?? [] },
+            CAUTION,
+          ),
         type: 'text/csv; charset=utf-8',
       }
   }
 }
 
 /** Sends the file as an attachment named after the room (and snapshot), sanitised. */
-export function sendDownload(res: Response, kind: DownloadKind, names: string[], file: { body: string; type: string }): void {
+export function sendDownload(
+  res: Response,
+  kind: DownloadKind,
+  names: string[],
+  file: { body: string; type: string },
+): void {
   const [base, ext] = kind.split('.') as [string, string]
   res.attachment(`${safeFileName(...names, base)}.${ext}`)
   res.type(file.type)

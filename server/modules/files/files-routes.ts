@@ -13,7 +13,8 @@ import { csvOptions, underlayScale } from './files-schema.js'
 import { FRAME_FILE_BYTES, importFrame, UNDERLAY_BYTES, underlayService } from './files-service.js'
 import { singleUpload } from './upload.js'
 
-const noFile = (field: string) => new AppError('invalid_upload', 400, `Attach the file in the form field "${field}".`, field)
+const noFile = (field: string) =>
+  new AppError('invalid_upload', 400, `Attach the file in the form field "${field}".`, field)
 
 /** Frame import, the underlay image, and downloads of the room's and snapshots' frame, surface and figures. */
 export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshots: SnapshotsService): Router {
@@ -26,7 +27,8 @@ export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshot
   const pinsRepo = pinsRepository(dataSource)
   /** Open pins, oldest first: the report and the figures CSV number them in this order. */
   const openPins = async (roomId: string) => (await pinsRepo.list(roomId, { resolved: false })).map(pinView)
-  const roomName = async (roomId: string) => (await dataSource.getRepository(RoomEntity).findOneBy({ id: roomId }))?.name ?? 'room'
+  const roomName = async (roomId: string) =>
+    (await dataSource.getRepository(RoomEntity).findOneBy({ id: roomId }))?.name ?? 'room'
 
   router.post('/rooms/:id/frame/import', editor, async (req, res) => {
     await frameUpload(req, res)
@@ -57,13 +59,24 @@ export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshot
     res.status(204).end()
   })
 
-  for (const kind of ['frame.json', 'surface.obj', 'surface.stl', 'figures.csv'] as const satisfies readonly DownloadKind[]) {
+  for (const kind of [
+    'frame.json',
+    'surface.obj',
+    'surface.stl',
+    'figures.csv',
+  ] as const satisfies readonly DownloadKind[]) {
     router.get(`/rooms/:id/${kind}`, viewer, async (req, res) => {
       const roomId = roomIdOf(req.params.id)
       const name = await roomName(roomId)
       if (kind === 'frame.json') {
         const { frame, invalid } = await live.getRoomFrame(roomId)
-        if (invalid) throw new AppError('invalid_frame', 409, `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`, invalid.path)
+        if (invalid)
+          throw new AppError(
+            'invalid_frame',
+            409,
+            `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`,
+            invalid.path,
+          )
         if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame to download yet.')
         return sendDownload(res, kind, [name], renderDownload(kind, { title: name, frame }))
       }
@@ -74,7 +87,12 @@ export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshot
         return sendDownload(res, kind, [name], renderDownload(kind, data))
       }
       const s = await live.getLatestSurface(roomId)
-      if (!s) throw new AppError('no_surface', 409, 'There is no settled surface to download yet: wait until the solver reports "settled".')
+      if (!s)
+        throw new AppError(
+          'no_surface',
+          409,
+          'There is no settled surface to download yet: wait until the solver reports "settled".',
+        )
       sendDownload(res, kind, [name], renderDownload(kind, { title: name, surface: surfaceResult(s, s.figures) }))
     })
 
@@ -83,7 +101,12 @@ export function filesRoutes(dataSource: DataSource, live: LiveRoomPort, snapshot
       const name = await roomName(roomId)
       const s = await snapshots.full(roomId, snapshotId(req.params.sid))
       const pins = kind === 'figures.csv' ? await openPins(roomId) : []
-      const data = { title: `${name} — snapshot "${s.name}"`, frame: s.frame, surface: surfaceResult(s.surface, s.figures), pins }
+      const data = {
+        title: `${name} — snapshot "${s.name}"`,
+        frame: s.frame,
+        surface: surfaceResult(s.surface, s.figures),
+        pins,
+      }
       sendDownload(res, kind, [name, s.name], renderDownload(kind, data))
     })
   }

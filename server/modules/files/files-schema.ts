@@ -1,8 +1,7 @@
 import { z } from 'zod'
 
 // Multipart fields arrive as text; z.coerce turns them into numbers, and refine keeps NaN out.
-const num = (what: string) =>
-  z.coerce.number(`${what}: a number`).refine(Number.isFinite, `${what}: a finite number`)
+const num = (what: string) => z.coerce.number(`${what}: a number`).refine(Number.isFinite, `${what}: a finite number`)
 const pixel = num('pixels').pipe(z.number().min(-100_000, 'within ±100000 px').max(100_000, 'within ±100000 px'))
 
 export const underlayScale = z

@@ -26,12 +26,18 @@ function text(bytes: Buffer): string {
  * or "line 7, column z" for CSV) and the reason. Returns the validated frame; the client writes it
  * into its document.
  */
-export function importFrame(file: { originalname: string; buffer: Buffer }, csv: { warp?: number; fill?: number; edgeLength?: number }): Frame {
+export function importFrame(
+  file: { originalname: string; buffer: Buffer },
+  csv: { warp?: number; fill?: number; edgeLength?: number },
+): Frame {
   const kind = /\.json$/i.test(file.originalname) ? 'json' : /\.csv$/i.test(file.originalname) ? 'csv' : null
   if (!kind) throw invalidFrame('Choose a .json frame file or a .csv file of loop,x,y,z[,edge,tension] rows.', 'file')
   try {
     if (kind === 'json') return parseFrameJson(text(file.buffer))
-    const prestress = csv.warp !== undefined || csv.fill !== undefined ? { warp: csv.warp ?? csv.fill!, fill: csv.fill ?? csv.warp! } : undefined
+    const prestress =
+      csv.warp !== undefined || csv.fill !== undefined
+        ? { warp: csv.warp ?? csv.fill!, fill: csv.fill ?? csv.warp! }
+        : undefined
     return parseFrameCsv(text(file.buffer), { prestress, edgeLength: csv.edgeLength })
   } catch (err) {
     if (err instanceof FrameError) throw invalidFrame(err.message, err.field)
@@ -44,8 +50,16 @@ export function underlayService(dataSource: DataSource) {
   const noUnderlay = () => notFound('no_underlay', 'This room has no underlay image.')
 
   const view = (u: NonNullable<Awaited<ReturnType<typeof repo.meta>>>) => ({
-    mime: u.mime, width: u.width, height: u.height,
-    ax: u.ax, ay: u.ay, bx: u.bx, by: u.by, distance: u.distance, originX: u.originX, originY: u.originY,
+    mime: u.mime,
+    width: u.width,
+    height: u.height,
+    ax: u.ax,
+    ay: u.ay,
+    bx: u.bx,
+    by: u.by,
+    distance: u.distance,
+    originX: u.originX,
+    originY: u.originY,
     metresPerPixel: u.distance / Math.hypot(u.bx - u.ax, u.by - u.ay),
     updatedAt: u.updatedAt.toISOString(),
   })

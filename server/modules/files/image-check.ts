@@ -36,9 +36,20 @@ export function inspectImage(bytes: Buffer): ImageInfo | null {
 /** The image's type and size from its bytes (never from the file name or the client's claim). */
 export function requireImage(bytes: Buffer, field: string): ImageInfo {
   const info = inspectImage(bytes)
-  if (!info) throw new AppError('invalid_image', 400, 'The underlay must be a PNG or JPEG image (checked by its content).', field)
+  if (!info)
+    throw new AppError(
+      'invalid_image',
+      400,
+      'The underlay must be a PNG or JPEG image (checked by its content).',
+      field,
+    )
   if (info.width < 1 || info.height < 1 || info.width > 20_000 || info.height > 20_000) {
-    throw new AppError('invalid_image', 400, `The image size ${info.width}×${info.height} px is outside 1–20000 px.`, field)
+    throw new AppError(
+      'invalid_image',
+      400,
+      `The image size ${info.width}×${info.height} px is outside 1–20000 px.`,
+      field,
+    )
   }
   return info
 }

@@ -10,7 +10,14 @@ import { AppError } from '../../lib/app-error.js'
 export function singleUpload(field: string, maxBytes: number, maxFields: number) {
   const middleware = multer({
     storage: multer.memoryStorage(),
-    limits: { files: 1, fileSize: maxBytes, fields: maxFields, fieldSize: 1024, parts: maxFields + 1, headerPairs: 100 },
+    limits: {
+      files: 1,
+      fileSize: maxBytes,
+      fields: maxFields,
+      fieldSize: 1024,
+      parts: maxFields + 1,
+      headerPairs: 100,
+    },
   }).single(field)
   return (req: Request, res: Response) =>
     new Promise<void>((resolve, reject) => {

@@ -9,7 +9,14 @@ const escapeHtml = (s: string) =>
   s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c)
 
 /** The invite e-mail, plain text first (the link on a line of its own) with an HTML twin. */
-export function inviteMail(input: { to: string; roomName: string; role: RoomRole; inviterName: string; link: string; expiresAt: Date }): OutgoingMail {
+export function inviteMail(input: {
+  to: string
+  roomName: string
+  role: RoomRole
+  inviterName: string
+  link: string
+  expiresAt: Date
+}): OutgoingMail {
   // Names stored before they were checked may hold line breaks: one line each, in text and subject.
   const p = { ...input, roomName: oneLine(input.roomName), inviterName: oneLine(input.inviterName) }
   const expires = p.expiresAt.toUTCString()

@@ -9,7 +9,8 @@ import type { membersService } from './members-service.js'
 
 const parseToken = (raw: unknown): string => {
   const r = inviteToken.safeParse(raw)
-  if (!r.success) throw new AppError('invite_not_found', 404, 'This invite link is not valid: check that the whole link was copied.')
+  if (!r.success)
+    throw new AppError('invite_not_found', 404, 'This invite link is not valid: check that the whole link was copied.')
   return r.data
 }
 const parseId = (raw: unknown, code: string, what: string): string => {
@@ -42,7 +43,10 @@ export function invitesRoutes(
   })
 
   router.delete('/rooms/:id/invites/:inviteId', owner, async (req, res) => {
-    await invites.revoke(req.params.id as string, parseId(req.params.inviteId, 'invite_not_found', 'invite in this room'))
+    await invites.revoke(
+      req.params.id as string,
+      parseId(req.params.inviteId, 'invite_not_found', 'invite in this room'),
+    )
     res.status(204).end()
   })
 

@@ -1,7 +1,10 @@
 import { z } from 'zod'
 import { roomRoles } from '../../db/entities/index.js'
 
-const email = z.email('not a valid e-mail address').max(254, 'at most 254 characters').transform((s) => s.trim().toLowerCase())
+const email = z
+  .email('not a valid e-mail address')
+  .max(254, 'at most 254 characters')
+  .transform((s) => s.trim().toLowerCase())
 const role = z.enum(roomRoles, { message: `one of ${roomRoles.join(', ')}` })
 
 export const createInviteBody = z.object({ email, role })

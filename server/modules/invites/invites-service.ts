@@ -16,14 +16,21 @@ export const INVITE_DAYS = 7
 export const newInviteToken = () => randomBytes(32).toString('base64url')
 export const hashInviteToken = (token: string) => createHash('sha256').update(token).digest('hex')
 
-const inviteNotFound = () => notFound('invite_not_found', 'This invite link is not valid: check that the whole link was copied.')
+const inviteNotFound = () =>
+  notFound('invite_not_found', 'This invite link is not valid: check that the whole link was copied.')
 
 /** 410 with a reason when the invite can no longer be used; revoked wins over used over expired. */
 function assertUsable(invite: Invite, now = new Date()): void {
-  if (invite.revokedAt) throw new AppError('invite_revoked', 410, 'This invite was withdrawn by the room owner. Ask them for a new one.')
-  if (invite.acceptedAt) throw new AppError('invite_used', 410, 'This invite has already been used. Each invite link works once.')
+  if (invite.revokedAt)
+    throw new AppError('invite_revoked', 410, 'This invite was withdrawn by the room owner. Ask them for a new one.')
+  if (invite.acceptedAt)
+    throw new AppError('invite_used', 410, 'This invite has already been used. Each invite link works once.')
   if (invite.expiresAt.getTime() <= now.getTime()) {
-    throw new AppError('invite_expired', 410, `This invite expired on ${invite.expiresAt.toISOString()}. Ask the room owner for a new one.`)
+    throw new AppError(
+      'invite_expired',
+      410,
+      `This invite expired on ${invite.expiresAt.toISOString()}. Ask the room owner for a new one.`,
+    )
   }
 }
 
@@ -43,21 +50,44 @@ export function invitesService({ dataSource, mailer, publicUrl }: InviteDeps) {
     async create(roomId: string, input: CreateInviteBody, inviter: { id: string; name: string }) {
       const existing = await repo.userByEmail(input.email)
       if (existing && (await repo.membership(roomId, existing.id))) {
-        throw new AppError('already_member', 409, 'This person is already a member of the room; change their role instead.', 'email')
+        throw new AppError(
+          'already_member',
+          409,
+          'This person is already a member of the room; change their role instead.',
+          'email',
+        )
       }
       const token = newInviteToken()
       const invite = {
-        id: randomUUID(), roomId, email: input.email, role: input.role, tokenHash: hashInviteToken(token),
-        expiresAt: new Date(Date.now() + INVITE_DAYS * 24 * 3600 * 1000), invitedById: inviter.id,
+        id: randomUUID(),
+        roomId,
+        email: input.email,
+        role: input.role,
+        tokenHash: hashInviteToken(token),
+        expiresAt: new Date(Date.now() + INVITE_DAYS * 24 * 3600 * 1000),
+        invitedById: inviter.id,
       }
       await repo.insert(invite)
       const roomName = await repo.roomName(roomId)
       try {
-        await mailer.send(inviteMail({ to: input.email, roomName, role: input.role, inviterName: inviter.name, link: `${base}/invite/${token}`, expiresAt: invite.expiresAt }))
+        await mailer.send(
+          inviteMail({
+            to: input.email,
+            roomName,
+            role: input.role,
+            inviterName: inviter.name,
+            link: `${base}/invite/${token}`,
+            expiresAt: invite.expiresAt,
+          }),
+        )
       } catch (err) {
         await repo.deleteById(invite.id)
         logger.warn('invite mail failed', { roomId, err: String(err) })
-        throw new AppError('mail_failed', 502, 'The invite e-mail could not be sent; nothing was saved. Try again later.')
+        throw new AppError(
+          'mail_failed',
+          502,
+          'The invite e-mail could not be sent; nothing was saved. Try again later.',
+        )
       }
       return { id: invite.id, email: invite.email, role: invite.role, expiresAt: invite.expiresAt.toISOString() }
     },
@@ -65,7 +95,11 @@ export function invitesService({ dataSource, mailer, publicUrl }: InviteDeps) {
     async listPending(roomId: string) {
       const rows = await repo.listPending(roomId)
       return rows.map((i) => ({
-        id: i.id, email: i.email, role: i.role, expiresAt: i.expiresAt.toISOString(), createdAt: i.createdAt.toISOString(),
+        id: i.id,
+        email: i.email,
+        role: i.role,
+        expiresAt: i.expiresAt.toISOString(),
+        createdAt: i.createdAt.toISOString(),
         invitedBy: i.invitedBy ? { id: i.invitedBy.id, name: i.invitedBy.name } : null,
       }))
     },
@@ -82,8 +116,11 @@ export function invitesService({ dataSource, mailer, publicUrl }: InviteDeps) {
       if (!invite) throw inviteNotFound()
       assertUsable(invite)
       return {
-        roomName: invite.room?.name ?? '', role: invite.role, email: invite.email,
-        invitedBy: invite.invitedBy?.name ?? '', expiresAt: invite.expiresAt.toISOString(),
+        roomName: invite.room?.name ?? '',
+        role: invite.role,
+        email: invite.email,
+        invitedBy: invite.invitedBy?.name ?? '',
+        expiresAt: invite.expiresAt.toISOString(),
       }
     },
 

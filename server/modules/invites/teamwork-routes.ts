@@ -31,7 +31,11 @@ export function teamworkRoutes({ config, dataSource, live, mail = loadMailConfig
   const router = Router()
   const mailer = createMailer(mail)
   const invites = invitesService({ dataSource, mailer, publicUrl: config.PUBLIC_URL })
-  router.use(invitesRoutes(dataSource, invites, membersService(dataSource, live), { invitesPerHour: config.RATE_INVITES_PER_HOUR }))
+  router.use(
+    invitesRoutes(dataSource, invites, membersService(dataSource, live), {
+      invitesPerHour: config.RATE_INVITES_PER_HOUR,
+    }),
+  )
   router.use(pinsRoutes(dataSource, pinsService(dataSource, live)))
   const snapshots = snapshotsService(dataSource, live)
   router.use(snapshotsRoutes(dataSource, snapshots))

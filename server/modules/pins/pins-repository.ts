@@ -12,7 +12,10 @@ export function pinsRepository(dataSource: DataSource) {
   const pins = dataSource.getRepository(PinEntity)
   const replies = dataSource.getRepository(PinReplyEntity)
 
-  async function list(roomId: string, filter: { resolved?: boolean; authorId?: string; pinId?: string }): Promise<PinRow[]> {
+  async function list(
+    roomId: string,
+    filter: { resolved?: boolean; authorId?: string; pinId?: string },
+  ): Promise<PinRow[]> {
     const qb = pins
       .createQueryBuilder('pin')
       .leftJoinAndSelect('pin.author', 'author')
@@ -25,7 +28,11 @@ export function pinsRepository(dataSource: DataSource) {
     const { entities, raw } = await qb.getRawAndEntities<{ pin_id: string; pin_updated_at: Date }>()
     const updated = new Map(raw.map((r) => [r.pin_id, new Date(r.pin_updated_at)]))
     const allReplies = entities.length
-      ? await replies.find({ where: { pinId: In(entities.map((p) => p.id)) }, relations: { author: true }, order: { createdAt: 'ASC' } })
+      ? await replies.find({
+          where: { pinId: In(entities.map((p) => p.id)) },
+          relations: { author: true },
+          order: { createdAt: 'ASC' },
+        })
       : []
     return entities.map((p) => ({
       ...p,
@@ -42,6 +49,7 @@ export function pinsRepository(dataSource: DataSource) {
     delete: (pinId: string) => pins.delete({ id: pinId }),
     insertReply: (reply: Omit<PinReply, 'createdAt'>) => replies.insert(reply),
     /** A reply changes the pin's thread, so the pin counts as updated. */
-    touch: (pinId: string) => dataSource.query('UPDATE pins SET updated_at = CURRENT_TIMESTAMP(3) WHERE id = ?', [pinId]),
+    touch: (pinId: string) =>
+      dataSource.query('UPDATE pins SET updated_at = CURRENT_TIMESTAMP(3) WHERE id = ?', [pinId]),
   }
 }

@@ -29,7 +29,9 @@ export function pinsRoutes(dataSource: DataSource, pins: ReturnType<typeof pinsS
 
   router.post('/rooms/:id/pins/:pinId/replies', reviewer, async (req, res) => {
     const { body } = replyBody.parse(req.body)
-    res.status(201).json({ pin: await pins.reply(req.params.id as string, pinId(req.params.pinId), body, req.user!.id) })
+    res
+      .status(201)
+      .json({ pin: await pins.reply(req.params.id as string, pinId(req.params.pinId), body, req.user!.id) })
   })
 
   router.patch('/rooms/:id/pins/:pinId', reviewer, async (req, res) => {

@@ -3,7 +3,10 @@ import { multiLineField } from '../../lib/text-fields.js'
 
 const body = multiLineField(4000).min(1, 'required')
 // z.number() refuses NaN and ±Infinity, so a pin always sits at a real point.
-const coordinate = z.number('a finite number in metres').min(-1e6, 'within ±1 000 000 m').max(1e6, 'within ±1 000 000 m')
+const coordinate = z
+  .number('a finite number in metres')
+  .min(-1e6, 'within ±1 000 000 m')
+  .max(1e6, 'within ±1 000 000 m')
 
 export const createPinBody = z.object({
   x: coordinate,

@@ -12,9 +12,22 @@ const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } :
 /** The pin as the API and the `pin:changed` event show it. */
 export function pinView(p: PinRow) {
   return {
-    id: p.id, x: p.x, y: p.y, z: p.z, docVersion: p.docVersion, body: p.body, resolved: p.resolved,
-    author: person(p.author), createdAt: p.createdAt.toISOString(), updatedAt: p.updatedAt.toISOString(),
-    replies: p.replies.map((r) => ({ id: r.id, body: r.body, author: person(r.author), createdAt: r.createdAt.toISOString() })),
+    id: p.id,
+    x: p.x,
+    y: p.y,
+    z: p.z,
+    docVersion: p.docVersion,
+    body: p.body,
+    resolved: p.resolved,
+    author: person(p.author),
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+    replies: p.replies.map((r) => ({
+      id: r.id,
+      body: r.body,
+      author: person(r.author),
+      createdAt: r.createdAt.toISOString(),
+    })),
   }
 }
 export type PinView = ReturnType<typeof pinView>
@@ -57,9 +70,15 @@ export function pinsService(dataSource: DataSource, live: Pick<LiveRoomPort, 'em
     },
 
     /** Text: author only. Resolved flag: editor and up (the author alone cannot close a review). */
-    async patch(roomId: string, pinId: string, patch: PatchPinBody, actor: { id: string; role: RoomRole }): Promise<PinView> {
+    async patch(
+      roomId: string,
+      pinId: string,
+      patch: PatchPinBody,
+      actor: { id: string; role: RoomRole },
+    ): Promise<PinView> {
       const pin = await load(roomId, pinId)
-      if (patch.body !== undefined && pin.authorId !== actor.id) throw forbidden('Only the pin’s author can change its text.')
+      if (patch.body !== undefined && pin.authorId !== actor.id)
+        throw forbidden('Only the pin’s author can change its text.')
       if (patch.resolved !== undefined && !can(actor.role, 'resolvePin')) {
         throw forbidden('Only editors and owners can resolve or reopen a pin.')
       }
@@ -75,4 +94,3 @@ export function pinsService(dataSource: DataSource, live: Pick<LiveRoomPort, 'em
     },
   }
 }
-

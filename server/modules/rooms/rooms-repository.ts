@@ -56,9 +56,15 @@ export function roomsRepository(dataSource: DataSource) {
       return rows[0] ? toView(rows[0]) : null
     },
     /** Inserts a room and its first member inside the caller's transaction. */
-    async insertWithMember(em: EntityManager, room: Omit<Room, 'createdAt' | 'updatedAt'>, member: { id: string; userId: string; role: RoomRole }) {
+    async insertWithMember(
+      em: EntityManager,
+      room: Omit<Room, 'createdAt' | 'updatedAt'>,
+      member: { id: string; userId: string; role: RoomRole },
+    ) {
       await em.getRepository(RoomEntity).insert(room)
-      await em.getRepository(MembershipEntity).insert({ id: member.id, roomId: room.id, userId: member.userId, role: member.role })
+      await em
+        .getRepository(MembershipEntity)
+        .insert({ id: member.id, roomId: room.id, userId: member.userId, role: member.role })
     },
     async update(roomId: string, patch: Partial<Pick<Room, 'name' | 'description'>>): Promise<void> {
       await dataSource.getRepository(RoomEntity).update({ id: roomId }, patch)

@@ -22,7 +22,11 @@ export function roomsService(dataSource: DataSource) {
     async create(input: CreateRoomBody, userId: string): Promise<RoomView> {
       const id = randomUUID()
       await dataSource.transaction((em) =>
-        rooms.insertWithMember(em, { id, name: input.name, description: input.description }, { id: randomUUID(), userId, role: 'owner' }),
+        rooms.insertWithMember(
+          em,
+          { id, name: input.name, description: input.description },
+          { id: randomUUID(), userId, role: 'owner' },
+        ),
       )
       return get(id, userId)
     },

@@ -11,7 +11,17 @@ export function snapshotsRepository(dataSource: DataSource) {
       repo
         .createQueryBuilder('s')
         .leftJoinAndSelect('s.author', 'author')
-        .select(['s.id', 's.roomId', 's.name', 's.note', 's.authorId', 's.figures', 's.createdAt', 'author.id', 'author.name'])
+        .select([
+          's.id',
+          's.roomId',
+          's.name',
+          's.note',
+          's.authorId',
+          's.figures',
+          's.createdAt',
+          'author.id',
+          'author.name',
+        ])
         .where('s.roomId = :roomId', { roomId })
         .orderBy('s.createdAt', 'DESC')
         .getMany(),
@@ -21,7 +31,20 @@ export function snapshotsRepository(dataSource: DataSource) {
         .createQueryBuilder('s')
         .leftJoinAndSelect('s.author', 'author')
         .where('s.roomId = :roomId AND s.id = :id', { roomId, id })
-      if (!withSurface) qb.select(['s.id', 's.roomId', 's.name', 's.note', 's.authorId', 's.frame', 's.figures', 's.pattern', 's.createdAt', 'author.id', 'author.name'])
+      if (!withSurface)
+        qb.select([
+          's.id',
+          's.roomId',
+          's.name',
+          's.note',
+          's.authorId',
+          's.frame',
+          's.figures',
+          's.pattern',
+          's.createdAt',
+          'author.id',
+          'author.name',
+        ])
       return qb.getOne()
     },
     delete: (roomId: string, id: string) => repo.delete({ roomId, id }),

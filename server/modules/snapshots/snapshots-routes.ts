@@ -8,7 +8,8 @@ import { CAUTION } from '../../../shared/protocol/index.js'
 
 const uuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 export const snapshotId = (raw: unknown): string => {
-  if (typeof raw !== 'string' || !uuid.test(raw)) throw new AppError('snapshot_not_found', 404, 'No such snapshot in this room.')
+  if (typeof raw !== 'string' || !uuid.test(raw))
+    throw new AppError('snapshot_not_found', 404, 'No such snapshot in this room.')
   return raw.toLowerCase()
 }
 export const roomIdOf = (raw: unknown): string => String(raw).toLowerCase()

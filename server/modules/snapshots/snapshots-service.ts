@@ -13,13 +13,19 @@ import { decodeSurface, encodeSurface, type StoredSurface } from './surface-code
 /** The figures a snapshot list shows (the full set is in the snapshot itself). */
 export function figuresSummary(f: Figures) {
   return {
-    area: f.area, planArea: f.planArea, perimeter: f.perimeter, heightRange: f.heightRange,
-    slopeRange: f.slopeRange, flatShare: f.flatShare, cableCount: f.cables.length,
+    area: f.area,
+    planArea: f.planArea,
+    perimeter: f.perimeter,
+    heightRange: f.heightRange,
+    slopeRange: f.slopeRange,
+    flatShare: f.flatShare,
+    cableCount: f.cables.length,
   }
 }
 
 const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null)
-const snapshotNotFound = () => notFound('snapshot_not_found', 'No such snapshot in this room (it may have been deleted).')
+const snapshotNotFound = () =>
+  notFound('snapshot_not_found', 'No such snapshot in this room (it may have been deleted).')
 
 function head(s: Snapshot) {
   return { id: s.id, name: s.name, note: s.note, author: person(s.author), createdAt: s.createdAt.toISOString() }
@@ -31,13 +37,18 @@ const f32 = (v: number) => Number(v.toPrecision(7))
 /** PRODUCT.md "Surface result" JSON from stored arrays. */
 export function surfaceResult(s: StoredSurface, figures: Figures): SurfaceResult {
   const vertices: [number, number, number][] = []
-  for (let i = 0; i < s.vertices.length; i += 3) vertices.push([f32(s.vertices[i]!), f32(s.vertices[i + 1]!), f32(s.vertices[i + 2]!)])
+  for (let i = 0; i < s.vertices.length; i += 3)
+    vertices.push([f32(s.vertices[i]!), f32(s.vertices[i + 1]!), f32(s.vertices[i + 2]!)])
   const triangles: [number, number, number][] = []
-  for (let i = 0; i < s.triangles.length; i += 3) triangles.push([s.triangles[i]!, s.triangles[i + 1]!, s.triangles[i + 2]!])
+  for (let i = 0; i < s.triangles.length; i += 3)
+    triangles.push([s.triangles[i]!, s.triangles[i + 1]!, s.triangles[i + 2]!])
   return { vertices, triangles, figures, solver: s.solver }
 }
 
-export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort, 'getRoomFrame' | 'getLatestSurface'>) {
+export function snapshotsService(
+  dataSource: DataSource,
+  live: Pick<LiveRoomPort, 'getRoomFrame' | 'getLatestSurface'>,
+) {
   const repo = snapshotsRepository(dataSource)
 
   async function load(roomId: string, id: string, withSurface = false): Promise<Snapshot> {
@@ -49,14 +60,24 @@ export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort
   /** The room's frame with the settled surface solved from it; 409 while there is none or it lags an edit. */
   async function current(roomId: string): Promise<{ frame: Frame; surface: SettledSurface }> {
     const { frame, version, invalid } = await live.getRoomFrame(roomId)
-    if (invalid) throw new AppError('invalid_frame', 409, `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`, invalid.path)
+    if (invalid)
+      throw new AppError(
+        'invalid_frame',
+        409,
+        `The room's frame is not valid (${invalid.message}): undo, import a frame or restore a snapshot to repair it.`,
+        invalid.path,
+      )
     if (!frame) throw new AppError('no_frame', 409, 'The room has no valid frame yet.')
     const surface = await live.getLatestSurface(roomId)
     if (!surface || !surface.solver.converged) {
       throw new AppError('no_surface', 409, 'There is no settled surface yet: wait until the solver reports "settled".')
     }
     if (surface.version !== version) {
-      throw new AppError('no_surface', 409, 'The surface is still settling after the latest edit: try again once it is settled.')
+      throw new AppError(
+        'no_surface',
+        409,
+        'The surface is still settling after the latest edit: try again once it is settled.',
+      )
     }
     return { frame, surface }
   }
@@ -74,14 +95,29 @@ export function snapshotsService(dataSource: DataSource, live: Pick<LiveRoomPort
       const { frame, surface } = await current(roomId)
       const id = randomUUID()
       const blob = encodeSurface({ vertices: surface.vertices, triangles: surface.triangles, solver: surface.solver })
-      await repo.insert({ id, roomId, name: input.name, note: input.note, authorId, frame, surface: blob, figures: surface.figures, pattern: surface.pattern ?? null })
+      await repo.insert({
+        id,
+        roomId,
+        name: input.name,
+        note: input.note,
+        authorId,
+        frame,
+        surface: blob,
+        figures: surface.figures,
+        pattern: surface.pattern ?? null,
+      })
       const saved = await load(roomId, id)
       return { ...head(saved), figures: figuresSummary(surface.figures) }
     },
 
     async get(roomId: string, id: string) {
       const s = await load(roomId, id)
-      return { ...head(s), frame: s.frame as Frame, figures: s.figures as Figures, pattern: (s.pattern ?? null) as PatternResult | null }
+      return {
+        ...head(s),
+        frame: s.frame as Frame,
+        figures: s.figures as Figures,
+        pattern: (s.pattern ?? null) as PatternResult | null,
+      }
     },
 
     /** Everything needed for downloads: name, frame, figures and the decoded surface. */

@@ -21,20 +21,25 @@ export function encodeSurface(s: Readonly<StoredSurface>): Buffer {
   out.writeUInt32LE(s.triangles.length / 3, 8)
   out.writeUInt32LE(solver.length, 12)
   Buffer.from(s.vertices.buffer, s.vertices.byteOffset, s.vertices.byteLength).copy(out, HEADER)
-  Buffer.from(s.triangles.buffer, s.triangles.byteOffset, s.triangles.byteLength).copy(out, HEADER + s.vertices.byteLength)
+  Buffer.from(s.triangles.buffer, s.triangles.byteOffset, s.triangles.byteLength).copy(
+    out,
+    HEADER + s.vertices.byteLength,
+  )
   solver.copy(out, HEADER + s.vertices.byteLength + s.triangles.byteLength)
   return out
 }
 
 /** Reads a stored surface back; throws when the bytes are not in the layout above. */
 export function decodeSurface(bytes: Buffer): StoredSurface {
-  if (bytes.length < HEADER || bytes.toString('latin1', 0, 4) !== MAGIC) throw new Error('stored surface: unknown format')
+  if (bytes.length < HEADER || bytes.toString('latin1', 0, 4) !== MAGIC)
+    throw new Error('stored surface: unknown format')
   const nV = bytes.readUInt32LE(4)
   const nT = bytes.readUInt32LE(8)
   const nS = bytes.readUInt32LE(12)
   const vBytes = nV * 12
   const tBytes = nT * 12
-  if (bytes.length !== HEADER + vBytes + tBytes + nS) throw new Error('stored surface: length does not match its header')
+  if (bytes.length !== HEADER + vBytes + tBytes + nS)
+    throw new Error('stored surface: length does not match its header')
   // Copy into fresh, aligned buffers: a Buffer from the driver may start at any byte offset.
   const vertices = new Float32Array(nV * 3)
   const triangles = new Uint32Array(nT * 3)

@@ -18,7 +18,10 @@ export function figureRows(f: Readonly<SnapshotFigures>): { label: string; value
     { label: 'Flat share (ponding / flutter risk)', value: fmt(f.flatShare * 100, '%', 1) },
   ]
   for (const c of f.cables ?? []) {
-    rows.push({ label: `Cable ${cableName(c)} (length, prestress-state force)`, value: `${fmt(c.length, 'm')}, ${fmt(c.force, 'kN', 1)}` })
+    rows.push({
+      label: `Cable ${cableName(c)} (length, prestress-state force)`,
+      value: `${fmt(c.length, 'm')}, ${fmt(c.force, 'kN', 1)}`,
+    })
   }
   if (!f.cables && f.cableCount !== undefined) rows.push({ label: 'Cable edges', value: String(f.cableCount) })
   return rows

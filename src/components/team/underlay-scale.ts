@@ -18,7 +18,10 @@ export interface UnderlayScale {
 
 /** A scale input that cannot work, naming the field and the reason. */
 export class ScaleError extends Error {
-  constructor(readonly field: 'a' | 'b' | 'distance', message: string) {
+  constructor(
+    readonly field: 'a' | 'b' | 'distance',
+    message: string,
+  ) {
     super(message)
     this.name = 'ScaleError'
   }
@@ -29,12 +32,22 @@ export class ScaleError extends Error {
  * `a`. Throws ScaleError for a missing, non-finite or non-positive distance, or points < 2 px apart
  * (a mis-click would give an absurd scale).
  */
-export function scaleFromPoints(a: PixelPoint | null, b: PixelPoint | null, distance: number, origin: PixelPoint | null = a): UnderlayScale {
+export function scaleFromPoints(
+  a: PixelPoint | null,
+  b: PixelPoint | null,
+  distance: number,
+  origin: PixelPoint | null = a,
+): UnderlayScale {
   if (!a) throw new ScaleError('a', 'Point A: click the first of two points whose distance you know.')
   if (!b) throw new ScaleError('b', 'Point B: click the second point.')
-  if (!Number.isFinite(distance) || distance <= 0) throw new ScaleError('distance', 'Distance: give the real distance between A and B in metres (more than 0).')
+  if (!Number.isFinite(distance) || distance <= 0)
+    throw new ScaleError('distance', 'Distance: give the real distance between A and B in metres (more than 0).')
   const px = Math.hypot(b.x - a.x, b.y - a.y)
-  if (!(px >= 2)) throw new ScaleError('b', `Point B is ${px.toFixed(1)} px from A: pick two points at least 2 px apart, ideally far apart.`)
+  if (!(px >= 2))
+    throw new ScaleError(
+      'b',
+      `Point B is ${px.toFixed(1)} px from A: pick two points at least 2 px apart, ideally far apart.`,
+    )
   const o = origin ?? a
   return { metresPerPixel: distance / px, originX: o.x, originY: o.y }
 }

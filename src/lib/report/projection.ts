@@ -15,8 +15,16 @@ export interface PlanTransform {
 }
 
 /** Plan extent of #V×3 vertices fitted into `width` (height follows, at most `maxHeight`), with `pad` around. */
-export function planTransform(vertices: ArrayLike<number>, width: number, maxHeight: number, pad: number): PlanTransform {
-  let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity
+export function planTransform(
+  vertices: ArrayLike<number>,
+  width: number,
+  maxHeight: number,
+  pad: number,
+): PlanTransform {
+  let x0 = Infinity,
+    y0 = Infinity,
+    x1 = -Infinity,
+    y1 = -Infinity
   for (let i = 0; i + 2 < vertices.length; i += 3) {
     x0 = Math.min(x0, vertices[i]!)
     x1 = Math.max(x1, vertices[i]!)
@@ -24,7 +32,8 @@ export function planTransform(vertices: ArrayLike<number>, width: number, maxHei
     y1 = Math.max(y1, vertices[i + 1]!)
   }
   if (!(x1 >= x0)) x0 = y0 = x1 = y1 = 0
-  const spanX = Math.max(x1 - x0, 1e-9), spanY = Math.max(y1 - y0, 1e-9)
+  const spanX = Math.max(x1 - x0, 1e-9),
+    spanY = Math.max(y1 - y0, 1e-9)
   const scale = Math.min((width - 2 * pad) / spanX, (maxHeight - 2 * pad) / spanY)
   const height = spanY * scale + 2 * pad
   const offX = (width - spanX * scale) / 2
@@ -43,7 +52,8 @@ export interface ViewAxes {
  * in plan) and `elevation` (degrees above horizontal). 225°, 30° looks from the south-west, down.
  */
 export function viewAxes(azimuth: number, elevation: number): ViewAxes {
-  const a = (azimuth * Math.PI) / 180, e = (elevation * Math.PI) / 180
+  const a = (azimuth * Math.PI) / 180,
+    e = (elevation * Math.PI) / 180
   const towards: [number, number, number] = [Math.cos(e) * Math.cos(a), Math.cos(e) * Math.sin(a), Math.sin(e)]
   const right: [number, number, number] = [-Math.sin(a), Math.cos(a), 0]
   // up = towards × right
@@ -64,7 +74,9 @@ const dot = (v: readonly number[], x: number, y: number, z: number): number => v
 export function projectVertices(vertices: ArrayLike<number>, axes: Readonly<ViewAxes>): Float64Array {
   const out = new Float64Array(vertices.length)
   for (let i = 0; i + 2 < vertices.length; i += 3) {
-    const x = vertices[i]!, y = vertices[i + 1]!, z = vertices[i + 2]!
+    const x = vertices[i]!,
+      y = vertices[i + 1]!,
+      z = vertices[i + 2]!
     out[i] = dot(axes.right, x, y, z)
     out[i + 1] = dot(axes.up, x, y, z)
     out[i + 2] = dot(axes.towards, x, y, z)
@@ -80,7 +92,10 @@ export function backToFront(projected: Readonly<Float64Array>, triangles: ArrayL
   const n = Math.floor(triangles.length / 3)
   const depth = new Float64Array(n)
   for (let t = 0; t < n; t++) {
-    depth[t] = projected[3 * triangles[3 * t]! + 2]! + projected[3 * triangles[3 * t + 1]! + 2]! + projected[3 * triangles[3 * t + 2]! + 2]!
+    depth[t] =
+      projected[3 * triangles[3 * t]! + 2]! +
+      projected[3 * triangles[3 * t + 1]! + 2]! +
+      projected[3 * triangles[3 * t + 2]! + 2]!
   }
   return Uint32Array.from({ length: n }, (_, i) => i).sort((a, b) => depth[a]! - depth[b]!)
 }
@@ -89,14 +104,27 @@ export function backToFront(projected: Readonly<Float64Array>, triangles: ArrayL
  * Lambert shading of each face, two-sided: ambient + diffuse·|n·light|, in 0..1. light: a unit
  * vector towards the light. vertices: #V×3, triangles: #T×3; returns #T values.
  */
-export function faceShades(vertices: ArrayLike<number>, triangles: ArrayLike<number>, light: readonly number[], ambient = 0.35): Float64Array {
+export function faceShades(
+  vertices: ArrayLike<number>,
+  triangles: ArrayLike<number>,
+  light: readonly number[],
+  ambient = 0.35,
+): Float64Array {
   const n = Math.floor(triangles.length / 3)
   const out = new Float64Array(n)
   for (let t = 0; t < n; t++) {
-    const a = 3 * triangles[3 * t]!, b = 3 * triangles[3 * t + 1]!, c = 3 * triangles[3 * t + 2]!
-    const ux = vertices[b]! - vertices[a]!, uy = vertices[b + 1]! - vertices[a + 1]!, uz = vertices[b + 2]! - vertices[a + 2]!
-    const vx = vertices[c]! - vertices[a]!, vy = vertices[c + 1]! - vertices[a + 1]!, vz = vertices[c + 2]! - vertices[a + 2]!
-    const nx = uy * vz - uz * vy, ny = uz * vx - ux * vz, nz = ux * vy - uy * vx
+    const a = 3 * triangles[3 * t]!,
+      b = 3 * triangles[3 * t + 1]!,
+      c = 3 * triangles[3 * t + 2]!
+    const ux = vertices[b]! - vertices[a]!,
+      uy = vertices[b + 1]! - vertices[a + 1]!,
+      uz = vertices[b + 2]! - vertices[a + 2]!
+    const vx = vertices[c]! - vertices[a]!,
+      vy = vertices[c + 1]! - vertices[a + 1]!,
+      vz = vertices[c + 2]! - vertices[a + 2]!
+    const nx = uy * vz - uz * vy,
+      ny = uz * vx - ux * vz,
+      nz = ux * vy - uy * vx
     const len = Math.hypot(nx, ny, nz)
     out[t] = len > 0 ? ambient + (1 - ambient) * Math.abs(dot(light, nx, ny, nz) / len) : ambient
   }
