@@ -206,7 +206,12 @@ describe('two instances, Redis, two workers, HAProxy', () => {
     await until(() => watchB.surfaces.some(withEdit), 120_000, 'surface from the other worker')
     console.log(`worker ${victim.id} killed mid-solve; surface from the other ${Date.now() - killedAt} ms later`)
     const survivor = cluster.workers.find((w) => w !== victim)!
-    expect(await redis.get(keys.home(roomId))).toBe(survivor.id)
+    // The worker records itself as the room's home just after it sends the surface: wait for that write.
+    let home: string | null = null
+    const homePoll = setInterval(() => void redis.get(keys.home(roomId)).then((id) => (home = id)), 20)
+    await until(() => home === survivor.id, 10_000, `home moved to ${survivor.id}`).finally(() =>
+      clearInterval(homePoll),
+    )
     expect(hasVertexNear(watchB.surfaces.find(withEdit)!.vertices, 6, 6, 1.5)).toBe(true)
     cluster.workers.splice(cluster.workers.indexOf(victim), 1)
     setSettings(onA.doc, { edgeLength: 0.3 })

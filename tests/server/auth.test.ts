@@ -132,7 +132,10 @@ describe('password storage', () => {
 
 describe('health and errors', () => {
   it('reports the database up', async () => {
-    expect((await client().get('/api/health')).body).toEqual({ ok: true, db: 'up' })
+    const body = (await client().get('/api/health')).body
+    // One process: no Redis; `instance` names this process (server/scale README).
+    expect(body).toMatchObject({ ok: true, db: 'up', redis: 'off' })
+    expect(typeof body.instance).toBe('string')
   })
 
   it('answers unknown API paths and bad JSON in the error shape', async () => {
