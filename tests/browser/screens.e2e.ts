@@ -5,7 +5,7 @@ import { chromium, type Browser, type BrowserContext, type Page } from 'playwrig
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { baseUrl, CHROMIUM_ARGS, CHROMIUM_PATH } from '../helpers/browser'
 import { demoPassword } from './demo-accounts'
-import { inviteToken, memberWithRole, signedIn, type ApiSession } from './api-session'
+import { apiSession, inviteToken, memberWithRole, signedIn, type ApiSession } from './api-session'
 import { brokenHeaderWords, settleLayout, sidewaysOverflow, trackRequests, watchPage } from './screen-checks'
 
 // Issue 14: every route at three working widths, for every role and signed out. A route fails on
@@ -58,7 +58,15 @@ beforeAll(async () => {
   // A pending invite to preview, and two snapshots to compare.
   const invitee = `screens-invitee-${Date.now()}@example.test`
   await owner.call('POST', `/api/rooms/${roomId}/invites`, { email: invitee, role: 'reviewer' })
-  inviteLink = `/invite/${await inviteToken(owner, invitee)}`
+  // The dev mailbox shows mail only to its addressee: the invitee signs up to read the link (and does not accept it).
+  const reader = await apiSession()
+  await reader.call('POST', '/api/auth/signup', {
+    name: 'Wren Invitee',
+    email: invitee,
+    password: 'a long enough password',
+  })
+  inviteLink = `/invite/${await inviteToken(reader, invitee)}`
+  await reader.close()
   const { snapshots } = await owner.call<{ snapshots: { id: string }[] }>('GET', `/api/rooms/${roomId}/snapshots`)
   while (snapshots.length < 2) {
     const { snapshot } = await owner.call<{ snapshot: { id: string } }>('POST', `/api/rooms/${roomId}/snapshots`, {
