@@ -55,8 +55,6 @@ interface Step {
 }
 
 if (process.argv.includes('--clients')) {
-  // Each y-websocket provider adds a process 'exit' listener.
-  process.setMaxListeners(0)
   const job = JSON.parse(process.env.BENCH_JOB ?? '{}') as Job
   const summary = summarise(await runClients(job))
   // stdout to a pipe is asynchronous: exit only once the line is out.

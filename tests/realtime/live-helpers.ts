@@ -94,6 +94,10 @@ export function connectDoc(url: string, roomId: string, cookie: string): DocClie
     WebSocketPolyfill: cookieSocket(cookie, url) as unknown as typeof globalThis.WebSocket,
     disableBc: true,
   })
+  // Each provider adds a process 'exit' listener that clears its awareness as the process ends;
+  // a test or benchmark holds dozens at once (Node warns past 10), and the server drops a closed
+  // socket's awareness itself, so the listener buys nothing here.
+  process.off('exit', provider._exitHandler)
   const synced = new Promise<void>((resolve) => {
     if (provider.synced) resolve()
     else provider.once('sync', () => resolve())
