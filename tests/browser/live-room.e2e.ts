@@ -7,7 +7,7 @@ import { openRoomTab } from './room-tabs'
 // Issue 4 end to end, three people in three browsers on one demo room: the editor changes a
 // point's height in the points table; owner and editor both see the solver settle at a version that
 // includes the edit and the same new fabric area; the reviewer watches read-only. Expected
-// behaviour: notes/protocol.md (state vectors tell whether a surface includes an edit; reviewers'
+// behaviour: server/realtime/README.md and shared/protocol/README.md (state vectors tell whether a surface includes an edit; reviewers'
 // updates are dropped and the client shows read-only).
 const ROOM = 'Courtyard canopy — Example Yard A'
 const OWNER = 'owner@demo.veilroom.test'

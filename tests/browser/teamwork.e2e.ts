@@ -163,7 +163,7 @@ describe('team work: invite, pins, snapshots', () => {
     await guest.page.getByTestId('pins-resolved').click()
     const seen = guest.page.getByTestId('pin-card').filter({ hasText: PIN_TEXT })
     await seen.getByTestId('pin-reply').filter({ hasText: 'Raised the anchor' }).waitFor({ timeout: 15_000 })
-    // Reviewers comment but do not resolve (notes/teamwork-server.md §3).
+    // Reviewers comment but do not resolve (server/modules/pins/README.md).
     expect(await seen.getByTestId('toggle-resolved').count()).toBe(0)
   })
 

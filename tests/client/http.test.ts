@@ -3,8 +3,8 @@ import * as api from '../../src/api/http'
 import { ApiError } from '../../src/api/http'
 import { csrfIssuer, fakeServer } from './fake-server'
 
-// Expected behaviour comes from the API contract of issue 2 (notes/server.md §5, the server's own
-// spec): JSON errors { error: { code, message, field? } }, CSRF token in header x-csrf-token on
+// Expected behaviour comes from the API contract (DEVELOPERS.md, the server's own
+// description): JSON errors { error: { code, message, field? } }, CSRF token in header x-csrf-token on
 // every unsafe method, token fetched again after sign-in/sign-out because the session is regenerated.
 
 const editor = { id: 7, email: 'editor@demo.veilroom.test', name: 'Edda Editor' }

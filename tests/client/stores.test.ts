@@ -5,7 +5,7 @@ import { useRoomsStore } from '../../src/stores/rooms'
 import { useSessionStore } from '../../src/stores/session'
 import { csrfIssuer, fakeServer } from './fake-server'
 
-// Behaviour follows the API contract of issue 2 (notes/server.md §5): sign-in returns { user },
+// Behaviour follows the API contract of issue 2 (DEVELOPERS.md): sign-in returns { user },
 // sign-out 204, rooms list/create/patch/delete with the shapes below.
 
 const editor = { id: 'u-2', email: 'editor@demo.veilroom.test', name: 'Edda Editor' }

@@ -31,7 +31,7 @@ const pins = [
 ]
 const ids = (list: Pin[]) => list.map((p) => p.id)
 
-// The filter rules are the server's (notes/teamwork-server.md §3: GET …/pins?status=open|resolved|all&mine=1);
+// The filter rules are the server's (server/modules/pins/pins-schema.ts: GET …/pins?status=open|resolved|all&mine=1);
 // the client filters locally so live pin:changed events land without a refetch, and must agree.
 describe('pin filters', () => {
   it('keeps only open, only resolved, or all pins, newest activity first', () => {
@@ -59,7 +59,7 @@ describe('pin filters', () => {
     expect(ids(upsertPin(pins, pin('e', 'x', false, '2026-01-02T00:00:00.000Z')))).toEqual(['a', 'b', 'c', 'd', 'e'])
   })
 
-  // Role rules from PRODUCT.md "Words" (reviewer: pins only) and notes/teamwork-server.md §3
+  // Role rules from PRODUCT.md "Words" (reviewer: pins only) and server/modules/pins/README.md
   // (resolve: editor and up; text and delete: author only).
   it('applies the role and authorship rules', () => {
     expect(['owner', 'editor', 'reviewer', 'viewer'].map((r) => canResolvePins(r as never))).toEqual([
@@ -81,7 +81,7 @@ describe('pin filters', () => {
 })
 
 describe('pins store live events', () => {
-  // Event names and payloads from notes/protocol.md "Server-side accessors":
+  // Event names and payloads from shared/protocol/pins.ts and events.ts:
   // pin:changed { roomId, pin } and pin:deleted { roomId, pinId }.
   it('merges pin:changed and drops pin:deleted for its own room only', async () => {
     const { createPinia, setActivePinia } = await import('pinia')

@@ -1,6 +1,6 @@
 /**
  * kill -9 of the server while editors are connected. The promise being tested is the protocol's
- * (protocol.md "Persistence"): every update is stored in MariaDB before it is relayed to peers, so
+ * (server/realtime/README.md, room-docs.ts): every update is stored in MariaDB before it is relayed to peers, so
  * anything a peer has seen survives a hard crash. After the restart the clients reconnect by
  * themselves (y-websocket backs off and retries), converge, and no frame point is duplicated.
  */

@@ -1,6 +1,6 @@
 /**
- * MariaDB stops while editors are connected, then comes back. Expected (our API contract and
- * protocol.md): /api/health answers 503 while the database is down; a write is refused with an
+ * MariaDB stops while editors are connected, then comes back. Expected (the API contract in DEVELOPERS.md
+ * and server/realtime/README.md): /api/health answers 503 while the database is down; a write is refused with an
  * error in the JSON error shape, or kept for later; the server process survives; once MariaDB is
  * back the app serves again without a restart, and the edits made during the outage end up stored.
  * Runs on a private MariaDB instance so other test runs sharing the test instance are not disturbed.

@@ -1,5 +1,5 @@
 /**
- * The server-side accessors other modules use (protocol.md "Server-side accessors"): the frame and
+ * The server-side accessors other modules use (LiveRoomPort, server/realtime/README.md): the frame and
  * version of a room, the last settled surface (solved on demand after a restart), broadcasts, and
  * closing a member's sockets when their access changes.
  */

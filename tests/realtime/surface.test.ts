@@ -1,7 +1,7 @@
 /**
  * The surface stream end to end: an edit in the shared document is solved in a worker and streamed
- * over socket.io with the state vector that proves it includes the edit (protocol.md, "Surface
- * stream"). Geometric checks use facts of the mesh contract (shared/mesh/README.md: every frame
+ * over socket.io with the state vector that proves it includes the edit (server/realtime/README.md,
+ * shared/protocol/README.md). Geometric checks use facts of the mesh contract (shared/mesh/README.md: every frame
  * point is a mesh vertex, so the solved surface passes through the moved point).
  */
 import type { Socket } from 'socket.io-client'

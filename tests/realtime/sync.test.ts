@@ -1,7 +1,7 @@
 /**
  * The CRDT endpoint end to end: real server, real MariaDB, y-websocket's own client provider.
  * Expected behaviour comes from the yjs documentation (concurrent map sets and array inserts both
- * survive; edits of a deleted type are discarded) and from our protocol (/work/notes/protocol.md).
+ * survive; edits of a deleted type are discarded) and from our endpoint (server/realtime/README.md).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as encoding from 'lib0/encoding'

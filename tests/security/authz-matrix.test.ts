@@ -3,7 +3,7 @@
  * so a new route without a row here fails), every socket.io event a client may send, and every
  * y-websocket message type, against every kind of caller. The rule is the product's role table
  * (PRODUCT.md "Words": owner ⊃ editor ⊃ reviewer ⊃ viewer) and the live-room protocol
- * (/work/notes/protocol.md: reviewers and viewers read only). Room routes answer signed out → 401,
+ * (server/realtime/README.md: reviewers and viewers read only). Room routes answer signed out → 401,
  * not a member → 404 room_not_found (rooms are not probeable), role too low → 403 forbidden.
  *
  * "Allowed" means the request got past the guard: the route's own answer (often 400 for the empty

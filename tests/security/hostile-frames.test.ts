@@ -2,7 +2,7 @@
  * Bad frames written straight into the shared document (yjs stores NaN, Infinity, strings and
  * 2001-point loops happily) and bad frame files sent to the import route. Expected: the room
  * reports 'unsettled' / 'invalid-frame' with the validator's field and reason, never crashes, and
- * solves again once the frame is fixed (protocol.md "Surface stream"; PRODUCT.md "Frame file":
+ * solves again once the frame is fixed (server/realtime/README.md; PRODUCT.md "Frame file":
  * "a clear error names the field and the reason (self-crossing loop, hole outside, NaN, too many
  * points)"). Limits are shared/frame's own: MAX_FRAME_POINTS per loop, MAX_ESTIMATED_VERTICES.
  */

@@ -1,7 +1,7 @@
 /**
- * Hostile bytes on the CRDT endpoint. The rules come from /work/shared/STACK.md ("Yjs server
+ * Hostile bytes on the CRDT endpoint. The rules come from the team briefing ../shared/STACK.md ("Yjs server
  * pitfalls": V1 only, a maxPayload cap, close the socket on a decode error, never merge raw client
- * bytes) and protocol.md. After every attack: the socket is closed (or the bytes change nothing),
+ * bytes) and server/realtime/README.md. After every attack: the socket is closed (or the bytes change nothing),
  * another room still relays edits, and the server's heap has not grown without bound.
  */
 import * as encoding from 'lib0/encoding'
