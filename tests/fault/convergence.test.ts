@@ -12,8 +12,7 @@ import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import {
   connectDoc,
   makeRoom,
-  makeUser,
-  signIn,
+  signedInUser,
   startLive,
   until,
   type DocClient,
@@ -26,10 +25,7 @@ const clients: DocClient[] = []
 
 beforeAll(async () => {
   live = await startLive()
-  for (const name of ['Ana', 'Ben', 'Cai', 'Dee']) {
-    const u = await makeUser(live.running.dataSource, name)
-    users.push({ id: u.id, cookie: await signIn(live.url, u.email) })
-  }
+  for (const name of ['Ana', 'Ben', 'Cai', 'Dee']) users.push(await signedInUser(live, name))
 })
 afterAll(async () => {
   for (const c of clients) c.destroy()

@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { starterFrame } from '../../shared/room-doc/starters.js'
-import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type Live } from './live-helpers.js'
+import { connectDoc, connectStream, makeRoom, signedInUser, startLive, until, type Live } from './live-helpers.js'
 
 let live: Live
 let owner: { id: string; cookie: string }
@@ -13,10 +13,8 @@ let guest: { id: string; cookie: string }
 
 beforeAll(async () => {
   live = await startLive()
-  const o = await makeUser(live.running.dataSource, 'Holder')
-  owner = { id: o.id, cookie: await signIn(live.url, o.email) }
-  const g = await makeUser(live.running.dataSource, 'Guest')
-  guest = { id: g.id, cookie: await signIn(live.url, g.email) }
+  owner = await signedInUser(live, 'Holder')
+  guest = await signedInUser(live, 'Guest')
 })
 
 afterAll(async () => {

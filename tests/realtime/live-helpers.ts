@@ -32,10 +32,10 @@ export async function startLive(tuning: RealtimeDeps['tuning'] = {}): Promise<Li
 /** The password of every user makeUser inserts. */
 export const PASSWORD = 'live-room-test-password'
 
-/** Inserts a user (bcrypt cost 4: these tests are about sockets, not password storage). */
+/** Inserts a user named `name` (bcrypt cost 4: these tests are about sockets, not password storage). */
 export async function makeUser(ds: DataSource, name: string): Promise<{ id: string; email: string }> {
   const id = randomUUID()
-  const email = `${name.toLowerCase()}-${id.slice(0, 8)}@live.veilroom.test`
+  const email = `${name.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${id.slice(0, 8)}@live.veilroom.test`
   await ds.getRepository(UserEntity).insert({ id, email, name, passwordHash: await bcrypt.hash(PASSWORD, 4) })
   return { id, email }
 }
@@ -61,6 +61,33 @@ export async function signIn(url: string, email: string): Promise<string> {
   })
   if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`)
   return cookieOf(res) || first
+}
+
+/** Inserts a user and signs them in: id, e-mail and the session cookie. */
+export async function signedInUser(
+  live: Pick<Live, 'running' | 'url'>,
+  name: string,
+): Promise<{ id: string; email: string; cookie: string }> {
+  const u = await makeUser(live.running.dataSource, name)
+  return { ...u, cookie: await signIn(live.url, u.email) }
+}
+
+/** A JSON API call with a session cookie (and that session's CSRF token); throws on a non-2xx answer. */
+export async function apiAs<T = Record<string, unknown>>(
+  url: string,
+  cookie: string,
+  method: string,
+  path: string,
+  body?: unknown,
+): Promise<T> {
+  const headers: Record<string, string> = { cookie, 'content-type': 'application/json' }
+  if (method !== 'GET') {
+    const csrf = await fetch(`${url}/api/auth/csrf`, { headers: { cookie } })
+    headers['x-csrf-token'] = ((await csrf.json()) as { token: string }).token
+  }
+  const res = await fetch(url + path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+  if (!res.ok) throw new Error(`${method} ${path}: ${res.status} ${await res.text()}`)
+  return (await res.json()) as T
 }
 
 function cookieOf(res: Response): string {
@@ -121,6 +148,22 @@ export function connectStream(url: string, cookie: string): Socket {
     forceNew: true,
     reconnection: false,
   })
+}
+
+/**
+ * Whether a vertex lies within `tol` of (x, y, z): the mesh contract (shared/mesh/README.md) makes
+ * every frame point a mesh vertex, so a solved surface passes through each point of its frame.
+ */
+export function hasVertexNear(vertices: Float32Array, x: number, y: number, z: number, tol = 1e-4): boolean {
+  for (let i = 0; i < vertices.length; i += 3) {
+    if (
+      Math.abs(vertices[i]! - x) < tol &&
+      Math.abs(vertices[i + 1]! - y) < tol &&
+      Math.abs(vertices[i + 2]! - z) < tol
+    )
+      return true
+  }
+  return false
 }
 
 /** Polls `check` until it is true (or fails after `ms`). */

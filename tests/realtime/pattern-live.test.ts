@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import * as Y from 'yjs'
 import { parseServerEvent, type PatternEvent } from '../../shared/protocol/index.js'
 import { addSeamFamily, patternMap, removeSeamFamily } from '../../shared/room-doc/seams.js'
-import { connectDoc, connectStream, makeRoom, makeUser, signIn, startLive, until, type Live } from './live-helpers.js'
+import { connectDoc, connectStream, makeRoom, signedInUser, startLive, until, type Live } from './live-helpers.js'
 
 let live: Live
 let owner: { id: string; cookie: string }
@@ -16,8 +16,7 @@ const closers: (() => void)[] = []
 
 beforeAll(async () => {
   live = await startLive()
-  const o = await makeUser(live.running.dataSource, 'Cutter')
-  owner = { id: o.id, cookie: await signIn(live.url, o.email) }
+  owner = await signedInUser(live, 'Cutter')
 })
 
 afterAll(async () => {

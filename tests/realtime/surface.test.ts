@@ -12,9 +12,9 @@ import { loopsOf } from '../../shared/room-doc/schema.js'
 import {
   connectDoc,
   connectStream,
+  hasVertexNear,
   makeRoom,
-  makeUser,
-  signIn,
+  signedInUser,
   startLive,
   until,
   type DocClient,
@@ -86,24 +86,10 @@ async function room(starter: 'sail' | 'blank' = 'sail'): Promise<{ roomId: strin
 
 const outer = (doc: Y.Doc) => loopsOf(doc).get(0).get('id') as string
 
-function hasVertexNear(vertices: Float32Array, x: number, y: number, z: number, tol = 1e-4): boolean {
-  for (let i = 0; i < vertices.length; i += 3) {
-    if (
-      Math.abs(vertices[i]! - x) < tol &&
-      Math.abs(vertices[i + 1]! - y) < tol &&
-      Math.abs(vertices[i + 2]! - z) < tol
-    )
-      return true
-  }
-  return false
-}
-
 beforeAll(async () => {
   live = await startLive()
-  const o = await makeUser(live.running.dataSource, 'Surveyor')
-  owner = { id: o.id, cookie: await signIn(live.url, o.email) }
-  const x = await makeUser(live.running.dataSource, 'Stranger')
-  outsider = { id: x.id, cookie: await signIn(live.url, x.email) }
+  owner = await signedInUser(live, 'Surveyor')
+  outsider = await signedInUser(live, 'Stranger')
 })
 
 afterAll(async () => {

@@ -9,7 +9,7 @@ import WebSocket from 'ws'
 import * as Y from 'yjs'
 import { deletePoint, findPoint, insertPointAfter, movePoint } from '../../shared/room-doc/edits.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
-import { connectDoc, makeRoom, makeUser, signIn, startLive, until, type DocClient, type Live } from './live-helpers.js'
+import { connectDoc, makeRoom, signedInUser, startLive, until, type DocClient, type Live } from './live-helpers.js'
 
 let live: Live
 let owner: { id: string; email: string; cookie: string }
@@ -19,10 +19,7 @@ let reviewer: { id: string; email: string; cookie: string }
 let outsider: { id: string; email: string; cookie: string }
 const clients: DocClient[] = []
 
-async function person(name: string) {
-  const u = await makeUser(live.running.dataSource, name)
-  return { ...u, cookie: await signIn(live.url, u.email) }
-}
+const person = (name: string) => signedInUser(live, name)
 
 async function seededRoom(): Promise<string> {
   const roomId = await makeRoom(live.running.dataSource, [

@@ -20,8 +20,10 @@ import { insertPointAfter, movePoint, setSettings } from '../../shared/room-doc/
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import { killHard, testEnv } from '../fault/child-server.js'
 import {
+  apiAs,
   connectDoc,
   connectStream,
+  hasVertexNear,
   makeRoom,
   makeUser,
   signIn,
@@ -90,29 +92,6 @@ function includesNow(client: DocClient): (s: SurfaceEvent) => boolean {
   return (s) => !s.coarse && (Y.decodeStateVector(s.stateVector).get(client.doc.clientID) ?? 0) >= clock
 }
 
-function hasVertexNear(vertices: Float32Array, x: number, y: number, z: number, tol = 1e-4): boolean {
-  for (let i = 0; i < vertices.length; i += 3) {
-    if (
-      Math.abs(vertices[i]! - x) < tol &&
-      Math.abs(vertices[i + 1]! - y) < tol &&
-      Math.abs(vertices[i + 2]! - z) < tol
-    )
-      return true
-  }
-  return false
-}
-
-/** JSON API call with a session cookie and the CSRF token of that session. */
-async function api(url: string, cookie: string, method: string, path: string, body?: unknown) {
-  const csrf = (await (await fetch(`${url}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string }
-  const res = await fetch(url + path, {
-    method,
-    headers: { cookie, 'x-csrf-token': csrf.token, ...(body ? { 'content-type': 'application/json' } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  })
-  return { status: res.status, body: (await res.json()) as Record<string, unknown> }
-}
-
 beforeAll(async () => {
   ds = await createDataSource(loadConfig(testEnv())).initialize()
   cluster = await startCluster()
@@ -165,27 +144,22 @@ describe('two instances, Redis, two workers, HAProxy', () => {
   it('shows on A the pins and snapshots made on B', async () => {
     const watchA = await stream(cluster.instances.a.url, cookieOwner)
     const b = cluster.instances.b.url
-    const pin = await api(b, cookieEditor, 'POST', `/api/rooms/${roomId}/pins`, {
+    const pin = await apiAs<{ pin: { id: string } }>(b, cookieEditor, 'POST', `/api/rooms/${roomId}/pins`, {
       x: 3,
       y: 3,
       z: 0.3,
       docVersion: 1,
       body: 'Check the corner plate',
     })
-    expect(pin.status).toBe(201)
-    const pinId = (pin.body.pin as { id: string }).id
+    const pinId = pin.pin.id
     await until(() => watchA.pins.some((p) => p.pin.id === pinId), 10_000, 'pin event on A')
 
     await until(() => watchB.states.at(-1)?.state === 'settled', 90_000, 'settled before the snapshot')
-    const snap = await api(b, cookieEditor, 'POST', `/api/rooms/${roomId}/snapshots`, {
-      name: 'Corner raised',
-      note: '',
-    })
-    expect(snap.status).toBe(201)
-    const listed = await api(cluster.instances.a.url, cookieOwner, 'GET', `/api/rooms/${roomId}/snapshots`)
-    expect(JSON.stringify(listed.body)).toContain('Corner raised')
-    const pins = await api(cluster.instances.a.url, cookieOwner, 'GET', `/api/rooms/${roomId}/pins`)
-    expect(JSON.stringify(pins.body)).toContain(pinId)
+    await apiAs(b, cookieEditor, 'POST', `/api/rooms/${roomId}/snapshots`, { name: 'Corner raised', note: '' })
+    const listed = await apiAs(cluster.instances.a.url, cookieOwner, 'GET', `/api/rooms/${roomId}/snapshots`)
+    expect(JSON.stringify(listed)).toContain('Corner raised')
+    const pins = await apiAs(cluster.instances.a.url, cookieOwner, 'GET', `/api/rooms/${roomId}/pins`)
+    expect(JSON.stringify(pins)).toContain(pinId)
   }, 120_000)
 
   it('finishes a solve on the other worker when the one running it is killed', async () => {
