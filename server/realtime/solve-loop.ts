@@ -10,7 +10,6 @@ import { noRoomPattern, type RoomCuts } from '../../shared/pattern/index.js'
 import { readRoomFrame } from '../../shared/room-doc/read.js'
 import { readRoomCuts } from '../../shared/room-doc/seams.js'
 import {
-  solverReasonSchema,
   type PatternEvent,
   type ServerPayload,
   type SettledSurface,
@@ -23,12 +22,11 @@ import { logger } from '../lib/logger.js'
 import { estimatedVertices, frameMeshedArea, frameStructureKey } from './engine-link.js'
 import type { LiveRoom, RoomDocs } from './room-docs.js'
 import type { SolveHandle, SolvePool } from './solve-pool.js'
+import { runSolveStep, type StepEvent } from './solve-step.js'
 import type { RoomEmit } from '../live-room-port/index.js'
 
 /** Vertex count a coarse preview aims at. */
 export const COARSE_VERTICES = 2000
-
-type LoopEvent = 'surface' | 'solve:state' | 'solve:progress' | 'pattern'
 
 interface Watch {
   room: LiveRoom
@@ -45,6 +43,8 @@ interface Watch {
   cuts?: RoomCuts | undefined
   /** The last fine surface that converged, with its pattern when the room has seams. */
   settled?: SettledSurface
+  /** Version of a settled surface whose pattern is still being laid flat (a snapshot waits for it). */
+  patternDue: number | null
   /** Called after each surface or state sent (getLatestSurface waits on them). */
   waiters: Set<() => void>
   onUpdate: () => void
@@ -79,11 +79,16 @@ export function createSolveLoop(opts: {
   const coarseAbove = opts.coarseAbove ?? 3 * COARSE_VERTICES
   const watches = new Map<string, Watch>()
 
-  const send = <E extends LoopEvent>(w: Watch, event: E, payload: Omit<ServerPayload<E>, 'roomId'>) => {
+  const send = <E extends StepEvent>(w: Watch, event: E, payload: Omit<ServerPayload<E>, 'roomId'>) => {
     const full = { roomId: w.room.roomId, ...payload } as ServerPayload<E>
     if (event === 'surface') w.surface = full as SurfaceEvent
     if (event === 'solve:state') w.state = full as SolveStateEvent
-    if (event === 'pattern') w.pattern = full as PatternEvent
+    if (event === 'pattern') {
+      const pattern = (w.pattern = full as PatternEvent)
+      // snapshots keep the pattern of the settled surface it was laid out from
+      if (pattern.result && w.settled?.version === pattern.version)
+        w.settled = { ...w.settled, pattern: pattern.result }
+    }
     emit(w.room.roomId, event, full)
     if (event !== 'solve:progress') for (const wake of w.waiters) wake()
   }
@@ -153,32 +158,30 @@ export function createSolveLoop(opts: {
     stateVector: Uint8Array,
     coarse: boolean,
   ): Promise<boolean> => {
-    const handle = pool.solve(w.room.roomId, frame, {
-      coarse,
-      cuts: w.cuts,
-      onProgress: (iteration, residual) => send(w, 'solve:progress', { version, iteration, residual }),
+    let mine: Watch['running'] = null
+    const cuts = w.cuts
+    const outcome = await runSolveStep(
+      pool,
+      { roomId: w.room.roomId, frame, version, stateVector, coarse, cuts },
+      {
+        send: (event, payload) => send(w, event, payload),
+        onHandle: (handle) => (mine = w.running = { handle, startedAt: performance.now() }),
+        onSurface: (surface) => {
+          if (coarse) return
+          w.warmKey = frameStructureKey(frame)
+          if (!surface.solver.converged) return
+          w.settled = { version, ...surface }
+          if (cuts) w.patternDue = version
+        },
+      },
+    )
+    if (w.running === mine) w.running = null
+    if (outcome.kind !== 'solved') return false
+    void outcome.patternSent.then(() => {
+      if (w.patternDue !== version) return
+      w.patternDue = null
+      for (const wake of w.waiters) wake()
     })
-    w.running = { handle, startedAt: performance.now() }
-    const outcome = await handle.done
-    if (w.running?.handle === handle) w.running = null
-    if (outcome.kind === 'cancelled') return false
-    if (outcome.kind === 'failed') {
-      logger.warn('realtime: solve failed', { roomId: w.room.roomId, message: outcome.message })
-      send(w, 'solve:state', { version, state: 'unsettled', reason: 'solver-error', message: outcome.message })
-      return false
-    }
-    const { kind: _k, worker: _w, pattern, ...surface } = outcome
-    send(w, 'surface', { version, stateVector, coarse, ...surface })
-    if (pattern) send(w, 'pattern', { version, ...pattern })
-    if (!coarse) {
-      w.warmKey = frameStructureKey(frame)
-      if (surface.solver.converged)
-        w.settled = { version, ...surface, ...(pattern?.result ? { pattern: pattern.result } : {}) }
-      const { converged, reason } = surface.solver
-      // the worker's report is ours, but its reason is a plain string: name unknown codes 'unknown'
-      const why = solverReasonSchema.parse(reason ?? 'not-converged')
-      send(w, 'solve:state', converged ? { version, state: 'settled' } : { version, state: 'unsettled', reason: why })
-    }
     return true
   }
 
@@ -207,6 +210,7 @@ export function createSolveLoop(opts: {
       dirty: false,
       scheduled: false,
       warmKey: null,
+      patternDue: null,
       waiters: new Set(),
       onUpdate: () => schedule(w),
     }
@@ -239,6 +243,7 @@ export function createSolveLoop(opts: {
       if (!w) return Promise.resolve(null)
       const target = w.room.version
       const decided = () => {
+        if (w.patternDue !== null) return false
         const s = w.state
         return (w.settled?.version ?? -1) >= target || ((s?.version ?? -1) >= target && s?.state !== 'settling')
       }

@@ -10,7 +10,7 @@ export interface SolveJobMessage {
   frame: Frame
   /** A quick preview at a larger element size; solved with its own (separate) warm state. */
   coarse: boolean
-  /** The room's seams, checked: after a settled fine solve the worker lays the strips flat too. */
+  /** The room's seams, checked: after a settled fine solve the worker lays the strips flat next. */
   cuts?: RoomCuts | undefined
   /** Int32Array(1) over this buffer: the pool writes 1 to cancel; the worker reads it as signal.aborted. */
   cancel: SharedArrayBuffer
@@ -25,5 +25,8 @@ export type ToWorker = SolveJobMessage | ForgetMessage
 
 export type FromWorker =
   | { type: 'progress'; jobId: number; iteration: number; residual: number }
-  | ({ type: 'result'; jobId: number; pattern?: RoomPatternPayload | undefined } & Surface)
+  /** `flattens`: a 'pattern' message for this job follows (the worker stays busy until it is sent). */
+  | ({ type: 'result'; jobId: number; flattens: boolean } & Surface)
+  /** The flat strips of the job's surface; undefined when the cancel flag stopped the flattening. */
+  | { type: 'pattern'; jobId: number; pattern?: RoomPatternPayload | undefined }
   | { type: 'failed'; jobId: number; message: string }

@@ -2,6 +2,8 @@
  * A pool of solve workers (worker_threads) with room affinity: a room's warm solver state lives in
  * one worker, so its jobs go there; when that worker is busy with another room an idle worker takes
  * the job cold (and becomes the room's home). Cancellation is cooperative through a shared flag.
+ * A settled surface of a room with seams is laid flat afterwards in the same worker: the surface is
+ * answered first, the pattern later; the room's next job stops a flattening still running.
  */
 import { Worker } from 'node:worker_threads'
 import type { RoomCuts, RoomPatternPayload } from '../../shared/pattern/index.js'
@@ -11,13 +13,15 @@ import type { Surface } from '../../shared/protocol/index.js'
 import type { FromWorker, ToWorker } from './solve-messages.js'
 
 export type SolveOutcome =
-  | ({ kind: 'result'; worker: number; pattern?: RoomPatternPayload | undefined } & Surface)
+  | ({ kind: 'result'; worker: number } & Surface)
   /** `solver` is there when the worker answered: its reason says whether the engine saw the flag. */
   | { kind: 'cancelled'; solver?: Surface['solver'] }
   | { kind: 'failed'; message: string }
 
 export interface SolveHandle {
   done: Promise<SolveOutcome>
+  /** The flat strips laid out after `done`; null when none were asked for, or cancelled, or the job failed. */
+  pattern: Promise<RoomPatternPayload | null>
   /** Asks the worker to stop at its next iteration; `done` then resolves 'cancelled'. */
   cancel: () => void
 }
@@ -29,8 +33,11 @@ interface Job {
   coarse: boolean
   cuts: RoomCuts | undefined
   flag: Int32Array
+  /** 'pattern': the surface is answered, the worker is laying the strips flat. */
+  phase: 'solve' | 'pattern'
   onProgress: (iteration: number, residual: number) => void
   resolve: (o: SolveOutcome) => void
+  resolvePattern: (p: RoomPatternPayload | null) => void
 }
 
 interface Slot {
@@ -61,6 +68,8 @@ export class SolvePool {
     const flag = new Int32Array(new SharedArrayBuffer(4))
     let resolve!: (o: SolveOutcome) => void
     const done = new Promise<SolveOutcome>((r) => (resolve = r))
+    let resolvePattern!: (p: RoomPatternPayload | null) => void
+    const pattern = new Promise<RoomPatternPayload | null>((r) => (resolvePattern = r))
     const job: Job = {
       id: this.nextId++,
       roomId,
@@ -68,10 +77,12 @@ export class SolvePool {
       coarse: opts.coarse ?? false,
       cuts: opts.cuts,
       flag,
+      phase: 'solve',
       onProgress: opts.onProgress ?? (() => undefined),
       resolve,
+      resolvePattern,
     }
-    if (this.closed) resolve({ kind: 'cancelled' })
+    if (this.closed) this.settle(job, { kind: 'cancelled' })
     else {
       this.queue.push(job)
       this.dispatch()
@@ -81,10 +92,10 @@ export class SolvePool {
       const queued = this.queue.indexOf(job)
       if (queued >= 0) {
         this.queue.splice(queued, 1)
-        resolve({ kind: 'cancelled' })
+        this.settle(job, { kind: 'cancelled' })
       }
     }
-    return { done, cancel }
+    return { done, pattern, cancel }
   }
 
   /** Starts every worker now, so the first edit does not wait for a worker to boot. */
@@ -106,7 +117,7 @@ export class SolvePool {
 
   async close(): Promise<void> {
     this.closed = true
-    for (const job of this.queue) job.resolve({ kind: 'cancelled' })
+    for (const job of this.queue) this.settle(job, { kind: 'cancelled' })
     this.queue = []
     await Promise.all(
       this.slots.map(async (slot) => {
@@ -137,7 +148,12 @@ export class SolvePool {
     if (home !== undefined) {
       if (idle(home)) return home
       // A cancelled job of the same room is about to end there: wait for it and stay warm.
-      if (this.slots[home]?.job?.roomId === roomId) return undefined
+      const running = this.slots[home]?.job
+      if (running?.roomId === roomId) {
+        // a newer job of the room makes the flattening of an older surface moot: stop it
+        if (running.phase === 'pattern') Atomics.store(running.flag, 0, 1)
+        return undefined
+      }
     }
     const free = this.slots.map((_, i) => i).filter(idle)
     if (free.length === 0) return undefined
@@ -193,24 +209,36 @@ export class SolvePool {
   private onMessage(slot: Slot, m: FromWorker): void {
     const job = slot.job
     if (!job || job.id !== m.jobId) return
+    const cancelled = Atomics.load(job.flag, 0) !== 0
     if (m.type === 'progress') job.onProgress(m.iteration, m.residual)
     else if (m.type === 'failed') this.finish(slot, { kind: 'failed', message: m.message })
+    else if (m.type === 'pattern') this.finish(slot, undefined, cancelled ? null : (m.pattern ?? null))
     else {
-      const { type: _t, jobId: _j, ...payload } = m
-      const cancelled = Atomics.load(job.flag, 0) !== 0
+      const { type: _t, jobId: _j, flattens, ...payload } = m
       const worker = this.slots.indexOf(slot)
-      this.finish(
-        slot,
-        cancelled ? { kind: 'cancelled', solver: payload.solver } : { kind: 'result', worker, ...payload },
-      )
+      const outcome: SolveOutcome = cancelled
+        ? { kind: 'cancelled', solver: payload.solver }
+        : { kind: 'result', worker, ...payload }
+      if (!flattens) return this.finish(slot, outcome)
+      // the worker stays busy with this job until its 'pattern' message (a queued job of the room stops it)
+      job.phase = 'pattern'
+      job.resolve(outcome)
+      this.dispatch()
     }
   }
 
-  private finish(slot: Slot, outcome: SolveOutcome): void {
+  /** Ends the slot's job: resolves what is still open (outcome, then pattern) and frees the worker. */
+  private finish(slot: Slot, outcome?: SolveOutcome, pattern: RoomPatternPayload | null = null): void {
     const job = slot.job
     slot.job = null
     slot.worker.unref()
-    job?.resolve(outcome)
+    if (job) this.settle(job, outcome, pattern)
     if (!this.closed) this.dispatch()
+  }
+
+  /** Resolves a job's promises (a promise already resolved keeps its first value). */
+  private settle(job: Job, outcome?: SolveOutcome, pattern: RoomPatternPayload | null = null): void {
+    if (outcome) job.resolve(outcome)
+    job.resolvePattern(pattern)
   }
 }

@@ -1,10 +1,11 @@
 /**
  * A solve worker: keeps one stateful surface solver per room it is home to (warm starts), turns the
- * pool's shared cancel flag into `signal.aborted`, throttles progress to ≤ 10 messages a second and
- * sends the surface back with its typed arrays transferred.
+ * pool's shared cancel flag into `signal.aborted`, throttles progress to ≤ 10 messages a second,
+ * sends the surface back with its typed arrays transferred and then, for a settled surface of a room
+ * with seams, lays the strips flat and sends them as a second message.
  */
 import { parentPort } from 'node:worker_threads'
-import { PatternError, roomPattern, type RoomPatternPayload } from '../../shared/pattern/index.js'
+import { noRoomPattern, PatternError, roomPattern, type RoomPatternPayload } from '../../shared/pattern/index.js'
 import { starterFrame } from '../../shared/room-doc/starters.js'
 import { computeFigures, createSurfaceSolver, type SurfaceSolver } from './engine-link.js'
 import type { FromWorker, SolveJobMessage, ToWorker } from './solve-messages.js'
@@ -47,29 +48,43 @@ async function solve(job: SolveJobMessage): Promise<void> {
     const figures = computeFigures(mesh, job.frame, { residual: report.residual })
     const vertices = Float32Array.from(mesh.vertices)
     const triangles = Uint32Array.from(mesh.triangles)
-    // the same job lays the strips flat, so the next edit's cancel flag stops both
-    const pattern =
-      job.cuts && !job.coarse && report.converged
-        ? patternOrCancelled(mesh.vertices, mesh.triangles, job.cuts, signal)
-        : undefined
-    const transfer = [vertices.buffer, triangles.buffer, ...(pattern ? patternBuffers(pattern) : [])]
+    const cuts = job.cuts && !job.coarse && report.converged ? job.cuts : undefined
+    // the surface goes out first: the room sees it while the strips are laid flat
     port!.postMessage(
-      { type: 'result', jobId: job.jobId, vertices, triangles, figures, solver: report, pattern } satisfies FromWorker,
-      transfer,
+      {
+        type: 'result',
+        jobId: job.jobId,
+        vertices,
+        triangles,
+        figures,
+        solver: report,
+        flattens: cuts !== undefined,
+      } satisfies FromWorker,
+      [vertices.buffer, triangles.buffer],
     )
+    if (cuts) flatten(job.jobId, mesh.vertices, mesh.triangles, cuts, signal)
   } catch (err) {
     post({ type: 'failed', jobId: job.jobId, message: err instanceof Error ? err.message : String(err) })
   }
 }
 
-/** The pattern, or undefined when the next edit cancelled it (the pool then reports the job cancelled). */
-function patternOrCancelled(...args: Parameters<typeof roomPattern>): RoomPatternPayload | undefined {
+/**
+ * Lays the strips flat and sends them; the job's cancel flag (raised by the room's next solve)
+ * stops it between strips and iterations. A fault here is the pattern's, not the surface's: it is
+ * sent as the pattern's error.
+ */
+function flatten(jobId: number, ...[vertices, triangles, cuts, signal]: Parameters<typeof roomPattern>): void {
+  let pattern: RoomPatternPayload | undefined
   try {
-    return roomPattern(...args)
+    pattern = roomPattern(vertices, triangles, cuts, signal)
   } catch (err) {
-    if (err instanceof PatternError && err.code === 'cancelled') return undefined
-    throw err
+    if (!(err instanceof PatternError && err.code === 'cancelled'))
+      pattern = noRoomPattern(
+        { code: 'pattern-failed', field: 'pattern', message: err instanceof Error ? err.message : String(err) },
+        cuts.settings,
+      )
   }
+  port!.postMessage({ type: 'pattern', jobId, pattern } satisfies FromWorker, pattern ? patternBuffers(pattern) : [])
 }
 
 function patternBuffers(p: RoomPatternPayload): ArrayBuffer[] {

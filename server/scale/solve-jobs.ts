@@ -16,9 +16,9 @@ export const JOB_NAME = 'solve'
 export const keys = {
   /** JSON { key, jobId, version }: the newest solve asked for; any other job of the room is stale. */
   latest: (roomId: string) => `vr:solve:latest:${roomId}`,
-  /** v8-serialised `surface` and `solve:state` payloads last sent to the room (hash fields). */
+  /** v8-serialised `surface`, `solve:state` and `pattern` payloads last sent to the room (hash fields). */
   out: (roomId: string) => `vr:solve:out:${roomId}`,
-  /** v8-serialised settled fine surface with its frame key. */
+  /** v8-serialised settled fine surface with its frame key (and its pattern result, once laid flat). */
   settled: (roomId: string) => `vr:solve:settled:${roomId}`,
   /** The worker that holds the room's warm state. */
   home: (roomId: string) => `vr:solve:home:${roomId}`,
@@ -47,6 +47,8 @@ export const jobDataSchema = z.object({
   version: z.number().int().min(0),
   /** Base64 of the document's state vector at enqueue (clients tell whether a surface has their edit). */
   stateVector: z.base64(),
+  /** The room's seams as the instance read them (RoomCuts); the worker checks them again. */
+  cuts: z.unknown().optional(),
 })
 export type SolveJobData = z.infer<typeof jobDataSchema>
 

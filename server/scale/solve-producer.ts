@@ -16,7 +16,9 @@ import type { RoomEmit } from '../live-room-port/index.js'
 import { logger } from '../lib/logger.js'
 import type { LiveRoom, RoomDocs } from '../realtime/room-docs.js'
 import type { LatestEvent, SolveLoop } from '../realtime/solve-loop.js'
-import type { SolveStateEvent, SurfaceEvent, VersionedSurface } from '../../shared/protocol/index.js'
+import type { PatternEvent, SettledSurface, SolveStateEvent } from '../../shared/protocol/index.js'
+import { noRoomPattern } from '../../shared/pattern/index.js'
+import { readRoomCuts, type RoomCutsRead } from '../../shared/room-doc/seams.js'
 import {
   GATE_SCRIPT,
   JOB_NAME,
@@ -30,6 +32,18 @@ import {
 } from './solve-jobs.js'
 
 const frameKey = (raw: unknown): string => createHash('sha256').update(JSON.stringify(raw)).digest('base64url')
+
+/**
+ * The room's frame and seams and the key of the solve they ask for. An invalid frame has a key too:
+ * its state is sent once, and it supersedes the last solve. The seams are part of the key: a
+ * changed set is laid flat again (as in one process).
+ */
+function readRoom(room: LiveRoom) {
+  const read = readRoomFrame(room.doc)
+  const cuts = readRoomCuts(room.doc, read.kind === 'frame' ? read.frame.prestress.warpAngle : 0)
+  const key = frameKey(read.kind === 'frame' ? [read.frame, cuts] : read)
+  return { read, cuts, key }
+}
 
 export interface ClusterSolveLoop extends SolveLoop {
   /** Offers every loaded room again, even unchanged (after Redis came back: queued jobs may be gone). */
@@ -59,10 +73,8 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
   }
 
   const offer = async (room: LiveRoom, force: boolean): Promise<void> => {
-    const read = readRoomFrame(room.doc)
+    const { read, cuts, key } = readRoom(room)
     if (read.kind === 'empty') return
-    // An invalid frame passes the gate too: its state is sent once, and it supersedes the last solve.
-    const key = frameKey(read.kind === 'frame' ? read.frame : { invalid: read.path, message: read.message })
     const jobId = randomUUID()
     const [enqueue, previous, version] = (await redis.eval(
       GATE_SCRIPT,
@@ -82,6 +94,7 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
         .remove(old)
         .catch(() => 0)
     }
+    await tellCuts(room, cuts, version)
     if (read.kind === 'invalid') {
       const payload: SolveStateEvent = {
         roomId: room.roomId,
@@ -101,6 +114,7 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
       key,
       version,
       stateVector: Buffer.from(Y.encodeStateVector(room.doc)).toString('base64'),
+      cuts: cuts?.ok ? cuts.cuts : undefined,
     }
     await queue(await target(room.roomId)).add(JOB_NAME, data, {
       jobId,
@@ -109,6 +123,18 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
       attempts: 3,
       backoff: { type: 'fixed', delay: 500 },
     })
+  }
+
+  /** A refused set of seams is told to the room now, a removed one clears the last pattern (workers send the rest). */
+  const tellCuts = async (room: LiveRoom, cuts: RoomCutsRead, version: number) => {
+    if (cuts?.ok) return
+    const out = keys.out(room.roomId)
+    if (!cuts && !(await redis.hexists(out, 'pattern'))) return
+    const error = cuts ? { code: 'invalid-seams', field: cuts.field, message: cuts.message } : null
+    const payload: PatternEvent = { roomId: room.roomId, version, ...noRoomPattern(error) }
+    opts.emit(room.roomId, 'pattern', payload)
+    if (cuts) await redis.hset(out, 'pattern', encodePayload({ key: '', payload }))
+    else await redis.hdel(out, 'pattern')
   }
 
   const schedule = (w: { room: LiveRoom; scheduled: boolean }, force = false) => {
@@ -139,19 +165,19 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
   rooms.on('loaded', onLoaded)
   rooms.on('freed', onFreed)
 
-  const stored = async (roomId: string, event: 'surface' | 'solve:state') => {
+  const stored = async (roomId: string, event: LatestEvent['event']) => {
     const bytes = await redis.hgetBuffer(keys.out(roomId), event)
-    // Written by our own workers (solve-job-runner.ts) in the protocol's payload shapes.
-    return bytes ? (decodePayload(bytes) as { key: string; payload: SurfaceEvent | SolveStateEvent }) : null
+    // Written by our own workers (solve-job-runner.ts) and tellCuts in the protocol's payload shapes.
+    return bytes ? (decodePayload(bytes) as { key: string; payload: LatestEvent['payload'] }) : null
   }
 
   return {
     latest: async (roomId) => {
       const out: LatestEvent[] = []
-      const surface = await stored(roomId, 'surface').catch(() => null)
-      if (surface) out.push({ event: 'surface', payload: surface.payload as SurfaceEvent })
-      const state = await stored(roomId, 'solve:state').catch(() => null)
-      if (state) out.push({ event: 'solve:state', payload: state.payload as SolveStateEvent })
+      for (const event of ['surface', 'solve:state', 'pattern'] as const) {
+        const found = await stored(roomId, event).catch(() => null)
+        if (found) out.push({ event, payload: found.payload } as LatestEvent)
+      }
       return out
     },
     settledSurface: async (roomId, ms) => {
@@ -159,13 +185,13 @@ export function createClusterSolveLoop(opts: { rooms: RoomDocs; redis: Redis; em
       if (!w) return null
       const end = Date.now() + ms
       for (;;) {
-        const read = readRoomFrame(w.room.doc)
-        const key = read.kind === 'frame' ? frameKey(read.frame) : null
+        const { read, key: roomKey } = readRoom(w.room)
+        const key = read.kind === 'frame' ? roomKey : null
         const bytes = await redis.getBuffer(keys.settled(roomId))
-        const settled = bytes ? (decodePayload(bytes) as VersionedSurface & { key: string }) : null
+        const settled = bytes ? (decodePayload(bytes) as SettledSurface & { key: string }) : null
         const state = await stored(roomId, 'solve:state')
         // Instances count versions apart: a surface of this very frame carries this instance's version.
-        if (settled && settled.key === key) return { ...settled, version: w.room.version } satisfies VersionedSurface
+        if (settled && settled.key === key) return { ...settled, version: w.room.version } satisfies SettledSurface
         const decided = state?.key === key && (state.payload as SolveStateEvent).state !== 'settling'
         // An older frame's surface: version -1 so a snapshot never mistakes it for the current one.
         if (decided || Date.now() > end) return settled ? { ...settled, version: -1 } : null

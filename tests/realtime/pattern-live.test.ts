@@ -1,6 +1,7 @@
 /**
  * The room's flat patterns live: seams written in the shared document are cut and laid flat in
- * the solve worker after the surface settles and streamed as a 'pattern' message; malformed seams
+ * the solve worker after the surface settles and streamed as a 'pattern' message after the surface
+ * (which never waits for the flattening); malformed seams
  * get a named error (the server keeps running); removing the seams clears the pattern.
  */
 import type { Socket } from 'socket.io-client'
@@ -34,14 +35,34 @@ describe('pattern stream', () => {
     const socket: Socket = connectStream(live.url, owner.cookie)
     closers.push(() => socket.close())
     const patterns: PatternEvent[] = []
+    /** Arrival order of fine surfaces, settled states and patterns, by version. */
+    const arrivals: string[] = []
     // every message must pass the protocol's own schema (shared/protocol/pattern.ts)
-    socket.on('pattern', (raw: unknown) => patterns.push(parseServerEvent('pattern', raw)))
+    socket.on('pattern', (raw: unknown) => {
+      const pattern = parseServerEvent('pattern', raw)
+      patterns.push(pattern)
+      arrivals.push(`pattern ${pattern.version}`)
+    })
+    socket.on('surface', (raw: unknown) => {
+      const surface = parseServerEvent('surface', raw)
+      if (!surface.coarse) arrivals.push(`surface ${surface.version}`)
+    })
+    socket.on('solve:state', (raw: unknown) => {
+      const state = parseServerEvent('solve:state', raw)
+      if (state.state === 'settled') arrivals.push(`settled ${state.version}`)
+    })
     await socket.timeout(10_000).emitWithAck('room:join', { roomId })
 
     const family = addSeamFamily(editor.doc, { kind: 'parallel', angle: 0, spacing: 2, offset: 0.5 })
     await until(() => patterns.some((p) => p.result !== null), 90_000, 'first pattern')
     const first = patterns.find((p) => p.result !== null)!
     expect(first.roomId).toBe(roomId)
+    // the surface of that version, and the news that it settled, came before its pattern: the
+    // solve answers without waiting for the strips to be laid flat
+    const at = (what: string) => arrivals.indexOf(`${what} ${first.version}`)
+    expect(at('surface')).toBeGreaterThanOrEqual(0)
+    expect(at('surface')).toBeLessThan(at('settled'))
+    expect(at('settled')).toBeLessThan(at('pattern'))
     expect(first.result!.strips.length).toBeGreaterThanOrEqual(3)
     expect(first.result!.caution).toMatch(/engineer of record/)
     expect(first.flat.vertexStart).toHaveLength(first.result!.strips.length + 1)

@@ -1,13 +1,15 @@
 /**
  * The solve pool with real worker threads running the real engine (TypeScript loaded through tsx,
  * also under vitest). Checks: a result matches the engine run in this thread; a cancelled job
- * stops inside the engine (its report says 'cancelled'); room affinity and the cold take-over.
+ * stops inside the engine (its report says 'cancelled'); room affinity and the cold take-over; the
+ * surface is answered before its pattern, and the room's next job stops a flattening still running.
  */
 import { afterAll, describe, expect, it } from 'vitest'
 import { createSurfaceSolver } from '../../shared/engine.js'
 import { starterFrame } from '../../shared/room-doc/starters.js'
 import type { Frame } from '../../shared/types.js'
 import { SolvePool, type SolveOutcome } from '../../server/realtime/solve-pool.js'
+import type { RoomCuts } from '../../shared/pattern/index.js'
 
 const pool = new SolvePool(2)
 afterAll(() => pool.close())
@@ -18,6 +20,12 @@ function square(h: number, z = 0.9): Frame {
   frame.mesh.edgeLength = h
   frame.loops[0]!.points[2]!.z = z
   return frame
+}
+
+/** Seams every 2 m across x (three strips on the 6 m square). */
+const cuts: RoomCuts = {
+  settings: { warpAngle: 0, compensation: { warp: 0, fill: 0 }, seamAllowance: 0, rollWidth: 2.5 },
+  families: [{ id: 'f1', kind: 'parallel', angle: 0, spacing: 2, offset: 0.5 }],
 }
 
 function result(o: SolveOutcome) {
@@ -65,5 +73,27 @@ describe('SolvePool', () => {
     expect(moved.worker).toBe(b.worker)
     slow.cancel()
     await slow.done
+  })
+
+  it('answers the surface first, then its strips laid flat', async () => {
+    const order: string[] = []
+    const handle = pool.solve('cut', square(0.3), { cuts })
+    const done = handle.done.then((o) => (order.push('surface'), o))
+    const pattern = await handle.pattern.then((p) => (order.push('pattern'), p))
+    expect(result(await done).solver.converged).toBe(true)
+    expect(order).toEqual(['surface', 'pattern'])
+    expect(pattern?.error).toBeNull()
+    expect(pattern?.result?.strips.length).toBeGreaterThanOrEqual(3)
+    // without seams there is nothing to lay flat
+    expect(await pool.solve('cut', square(0.3, 1)).pattern).toBeNull()
+  })
+
+  it('stops the flattening of a surface when a newer job of the room is waiting', async () => {
+    const older = pool.solve('cut-again', square(0.1), { cuts })
+    // queued behind the older job on the room's worker: it raises the flag when the surface is answered
+    const newer = pool.solve('cut-again', square(0.1, 1.2), { cuts })
+    expect((await older.done).kind).toBe('result')
+    expect(await older.pattern).toBeNull()
+    expect((await newer.pattern)?.result?.strips.length).toBeGreaterThanOrEqual(3)
   })
 })

@@ -1,7 +1,8 @@
 /**
  * Scale-out on loopback (issue 10): two app instances, Redis, two solve workers and HAProxy, as
  * real processes. What is promised: an edit through one instance reaches clients of the other
- * with its surface; pins and snapshots made on one show on the other; a worker killed mid-solve
+ * with its surface; seams laid on one come back from a worker as a pattern, after their surface;
+ * pins and snapshots made on one show on the other; a worker killed mid-solve
  * leaves its job to the other; Redis restarting costs a pause, not edits; an instance killed hard
  * sends its clients through the proxy to the other, where they converge with nothing lost.
  * Geometry is checked by a fact of the mesh contract (shared/mesh/README.md: every frame point is
@@ -17,6 +18,8 @@ import { createDataSource } from '../../server/db/data-source.js'
 import { closeRedis, createRedis } from '../../server/scale/redis.js'
 import { keys } from '../../server/scale/solve-jobs.js'
 import { insertPointAfter, movePoint, setSettings } from '../../shared/room-doc/edits.js'
+import { addSeamFamily, removeSeamFamily } from '../../shared/room-doc/seams.js'
+import { parseServerEvent, type PatternEvent } from '../../shared/protocol/index.js'
 import { loopsOf, readRawFrame } from '../../shared/room-doc/schema.js'
 import { killHard, testEnv } from '../fault/child-server.js'
 import {
@@ -71,6 +74,9 @@ async function stream(url: string, cookie: string) {
   const surfaces: SurfaceEvent[] = []
   const states: StateEvent[] = []
   const pins: { pin: { id: string } }[] = []
+  const patterns: PatternEvent[] = []
+  /** Arrival order of fine surfaces and patterns, by version. */
+  const arrivals: string[] = []
   socket.on('surface', (s: SurfaceEvent) => {
     const copy = (b: unknown) => new Uint8Array(b as Uint8Array).slice().buffer
     surfaces.push({
@@ -78,12 +84,19 @@ async function stream(url: string, cookie: string) {
       stateVector: new Uint8Array(copy(s.stateVector)),
       vertices: new Float32Array(copy(s.vertices)),
     })
+    if (!s.coarse) arrivals.push(`surface ${s.version}`)
   })
   socket.on('solve:state', (s: StateEvent) => states.push(s))
+  socket.on('pattern', (raw: unknown) => {
+    // the emitter's wire form must pass the protocol's own schema, as in one process
+    const p = parseServerEvent('pattern', raw)
+    patterns.push(p)
+    arrivals.push(`pattern ${p.version}`)
+  })
   socket.on('pin:changed', (p: { pin: { id: string } }) => pins.push(p))
   const ack = (await socket.timeout(20_000).emitWithAck('room:join', { roomId })) as { ok: boolean }
   expect(ack.ok).toBe(true)
-  return { socket, surfaces, states, pins }
+  return { socket, surfaces, states, pins, patterns, arrivals }
 }
 
 /** A fine surface whose state vector includes everything `client` had written when this was called. */
@@ -139,6 +152,25 @@ describe('two instances, Redis, two workers, HAProxy', () => {
     await until(() => watchB.surfaces.some(withEdit), 90_000, 'surface with the edit on B')
     // The blank square's corner (6, 6) now stands at 1.2 m: the mesh has a vertex there.
     expect(hasVertexNear(watchB.surfaces.find(withEdit)!.vertices, 6, 6, 1.2)).toBe(true)
+  }, 120_000)
+
+  it('lays seams made on A flat in a worker and sends B the pattern after its surface', async () => {
+    const family = addSeamFamily(onA.doc, { kind: 'parallel', angle: 0, spacing: 2, offset: 0.5 })
+    await until(() => watchB.patterns.some((p) => p.result !== null), 90_000, 'pattern on B')
+    const first = watchB.patterns.find((p) => p.result !== null)!
+    expect(first.result!.strips.length).toBeGreaterThanOrEqual(3)
+    expect(first.flat.uv).toBeInstanceOf(Float32Array)
+    const at = (what: string) => watchB.arrivals.indexOf(`${what} ${first.version}`)
+    expect(at('surface')).toBeGreaterThanOrEqual(0)
+    expect(at('surface')).toBeLessThan(at('pattern'))
+    // removing the seams clears the pattern (the instance tells the room itself)
+    const before = watchB.patterns.length
+    removeSeamFamily(onA.doc, family)
+    await until(
+      () => watchB.patterns.slice(before).some((p) => p.result === null && p.error === null),
+      30_000,
+      'cleared pattern on B',
+    )
   }, 120_000)
 
   it('shows on A the pins and snapshots made on B', async () => {
