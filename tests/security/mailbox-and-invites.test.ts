@@ -8,8 +8,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ApiClient, uniqueEmail } from '../helpers/test-server.js'
 import {
-  mailIds,
-  mailTo,
+  inviteTokenIn,
+  mailedInvite,
   roomWithCast,
   startTeamworkServer,
   type RoomCast,
@@ -26,15 +26,8 @@ afterAll(async () => {
   await tw?.stop()
 })
 
-const tokenFrom = (text: string) => /\/invite\/([A-Za-z0-9_-]{43})/.exec(text)?.[1] ?? ''
-
 /** The owner invites `email`; returns the token from the mail the fake SMTP server caught. */
-async function invite(email: string, role: string): Promise<string> {
-  const seen = await mailIds(tw, email)
-  const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email, role })
-  expect(reply.status).toBe(201)
-  return tokenFrom((await mailTo(tw, email, seen)).text)
-}
+const invite = async (email: string, role: string) => (await mailedInvite(tw, cast, email, role)).token
 
 async function signUpAs(email: string): Promise<ApiClient> {
   const c = tw.client()
@@ -71,7 +64,7 @@ describe('dev mailbox (item 2)', () => {
     expect(mine.status).toBe(200)
     expect(mine.body.messages.length).toBeGreaterThan(0)
     expect(mine.body.messages.every((m: { to: string }) => m.to.toLowerCase().split(', ').includes(guest))).toBe(true)
-    expect(mine.body.messages.some((m: { text: string }) => tokenFrom(m.text) === token)).toBe(true)
+    expect(mine.body.messages.some((m: { text: string }) => inviteTokenIn(m.text) === token)).toBe(true)
   })
 
   it('matches the address literally: _ is no LIKE wildcard', async () => {

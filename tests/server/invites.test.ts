@@ -3,8 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { invitesService } from '../../server/modules/invites/invites-service.js'
 import { uniqueEmail } from '../helpers/test-server.js'
 import {
-  mailIds,
-  mailTo,
+  mailedInvite,
   roomWithCast,
   startTeamworkServer,
   type RoomCast,
@@ -21,19 +20,7 @@ afterAll(async () => {
   await tw?.stop()
 })
 
-const tokenFrom = (text: string): string => {
-  const match = /\/invite\/([A-Za-z0-9_-]+)/.exec(text)
-  if (!match?.[1]) throw new Error(`no invite link in: ${text}`)
-  return match[1]
-}
-
-async function invite(email: string, role = 'reviewer') {
-  const seen = await mailIds(tw, email)
-  const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email, role })
-  expect(reply.status).toBe(201)
-  const mail = await mailTo(tw, email, seen)
-  return { reply, mail, token: tokenFrom(mail.text) }
-}
+const invite = (email: string, role = 'reviewer') => mailedInvite(tw, cast, email, role)
 
 describe('invite flow through the fake SMTP server', () => {
   it('mails a single-use link that a newly signed-up user accepts', async () => {

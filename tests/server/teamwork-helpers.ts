@@ -143,6 +143,20 @@ export async function mailTo(
   throw new Error(`no new mail to ${to}`)
 }
 
+/** The invite token in a mail's link (43 base64url characters: newInviteToken's 32 bytes), or null. */
+export const inviteTokenIn = (text: string): string | null => /\/invite\/([A-Za-z0-9_-]{43})\b/.exec(text)?.[1] ?? null
+
+/** The owner of `cast` invites `email`; returns the route's reply, the mail caught and its token. */
+export async function mailedInvite(tw: TeamworkServer, cast: RoomCast, email: string, role: string) {
+  const seen = await mailIds(tw, email)
+  const reply = await cast.clients.owner.post(`/api/rooms/${cast.roomId}/invites`, { email, role })
+  if (reply.status !== 201) throw new Error(`invite failed: ${reply.status} ${JSON.stringify(reply.body)}`)
+  const mail = await mailTo(tw, email, seen)
+  const token = inviteTokenIn(mail.text)
+  if (!token) throw new Error(`no invite link in: ${mail.text}`)
+  return { reply, mail, token }
+}
+
 /**
  * Stands in for server/realtime in these API tests: one room frame with a version counter, solved
  * by the real engine (shared/engine.ts solveFrame) on demand, handed out as the live room does
