@@ -78,12 +78,8 @@ describe('MariaDB restart under live clients', () => {
 
     await db.start()
     const back = Date.now()
-    let healthy = false
-    while (!healthy && Date.now() - back < 20_000) {
-      healthy = (await fetch(`${server.url}/api/health`)).status === 200
-      if (!healthy) await new Promise((r) => setTimeout(r, 200))
-    }
-    expect(healthy).toBe(true)
+    const healthy = async () => (await fetch(`${server.url}/api/health`)).status === 200
+    await until(healthy, 20_000, 'health 200 after MariaDB is back', 100)
     console.log(`healthy again ${Date.now() - back} ms after MariaDB answered`)
     const created = await post(server.url, '/api/rooms', cookieA, { name: 'after the outage' })
     expect(created.status).toBe(201)
@@ -95,14 +91,15 @@ describe('MariaDB restart under live clients', () => {
     const check = await createDataSource(loadConfig(db.env)).initialize()
     try {
       let stored = ''
-      for (let i = 0; i < 50 && !stored.includes('0.75'); i++) {
+      const storedFrame = async () => {
         const room = await loadStoredRoom(check, roomId)
         const doc = new Y.Doc()
         if (room.state) Y.applyUpdate(doc, room.state)
         for (const u of room.updates) Y.applyUpdate(doc, u)
         stored = frameJson(doc)
-        if (!stored.includes('0.75')) await new Promise((r) => setTimeout(r, 200))
+        return stored.includes('0.75')
       }
+      await until(storedFrame, 10_000, 'the outage edit stored', 100)
       expect(stored).toContain('0.25')
       expect(stored).toContain('0.75')
     } finally {

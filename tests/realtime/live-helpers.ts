@@ -166,11 +166,19 @@ export function hasVertexNear(vertices: Float32Array, x: number, y: number, z: n
   return false
 }
 
-/** Polls `check` until it is true (or fails after `ms`). */
-export async function until(check: () => boolean, ms = 10_000, what = 'condition'): Promise<void> {
+/**
+ * Polls `check` (sync, or async such as an HTTP or database read) every `every` ms until it is true;
+ * fails after `ms` naming `what`.
+ */
+export async function until(
+  check: () => boolean | Promise<boolean>,
+  ms = 10_000,
+  what = 'condition',
+  every = 10,
+): Promise<void> {
   const end = Date.now() + ms
-  while (!check()) {
+  while (!(await check())) {
     if (Date.now() > end) throw new Error(`timed out waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 10))
+    await new Promise((r) => setTimeout(r, every))
   }
 }

@@ -213,10 +213,10 @@ describe('two instances, Redis, two workers, HAProxy', () => {
     console.log(`worker ${victim.id} killed mid-solve; surface from the other ${Date.now() - killedAt} ms later`)
     const survivor = cluster.workers.find((w) => w !== victim)!
     // The worker records itself as the room's home just after it sends the surface: wait for that write.
-    let home: string | null = null
-    const homePoll = setInterval(() => void redis.get(keys.home(roomId)).then((id) => (home = id)), 20)
-    await until(() => home === survivor.id, 10_000, `home moved to ${survivor.id}`).finally(() =>
-      clearInterval(homePoll),
+    await until(
+      async () => (await redis.get(keys.home(roomId))) === survivor.id,
+      10_000,
+      `home moved to ${survivor.id}`,
     )
     expect(hasVertexNear(watchB.surfaces.find(withEdit)!.vertices, 6, 6, 1.5)).toBe(true)
     cluster.workers.splice(cluster.workers.indexOf(victim), 1)
@@ -227,9 +227,9 @@ describe('two instances, Redis, two workers, HAProxy', () => {
     await cluster.stopRedis()
     movePoint(onA.doc, outer(onA.doc), 'b1', { z: 0.4 })
     const withEdit = includesNow(onA)
-    await new Promise((r) => setTimeout(r, 500))
-    const down = await (await fetch(`${cluster.instances.a.url}/api/health`)).json()
-    expect(down).toMatchObject({ ok: false, db: 'up', redis: 'down' })
+    const health = async () => (await fetch(`${cluster.instances.a.url}/api/health`)).json()
+    await until(async () => (await health()).redis === 'down', 10_000, 'A reports Redis down', 50)
+    expect(await health()).toMatchObject({ ok: false, db: 'up', redis: 'down' })
     await cluster.startRedis()
     await until(() => frameJson(onB.doc) === frameJson(onA.doc), 30_000, 'B caught up')
     await until(() => watchB.surfaces.some(withEdit), 90_000, 'surface after Redis came back')

@@ -17,8 +17,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RoomRole } from '../../server/db/entities/index.js'
 import * as Y from 'yjs'
 import { loopsOf } from '../../shared/room-doc/schema.js'
-import { connectStream, makeRoom, makeUser, signIn, startLive, type Live } from '../realtime/live-helpers.js'
-import { awarenessMessage, editUpdate, openRaw, syncMessage, waitFor } from './raw-sync.js'
+import { connectStream, makeRoom, makeUser, signIn, startLive, until, type Live } from '../realtime/live-helpers.js'
+import { awarenessMessage, editUpdate, openRaw, syncMessage } from './raw-sync.js'
 
 type Who = RoomRole | 'outsider' | 'signedOut'
 const callers: Who[] = ['signedOut', 'outsider', 'viewer', 'reviewer', 'editor', 'owner']
@@ -216,7 +216,7 @@ describe('socket.io events × callers', () => {
       await new Promise<void>(
         (resolve, reject) => (socket.once('connect', () => resolve()), socket.once('connect_error', reject)),
       )
-      await waitFor(() => listened.size > 0, 5000, 'server-side listeners')
+      await until(() => listened.size > 0, 5000, 'server-side listeners')
       expect([...listened].filter((n) => !['disconnect', 'disconnecting', 'error'].includes(n)).sort()).toEqual(
         [...events].sort(),
       )
@@ -284,7 +284,7 @@ describe('sync message types × callers', () => {
     try {
       const server = live.realtime.rooms.peek(roomId)!
       peer.send(syncMessage(0, new Uint8Array([0])))
-      await waitFor(() => peer.syncSeen.includes(1), 5000, 'sync step 2 answer')
+      await until(() => peer.syncSeen.includes(1), 5000, 'sync step 2 answer')
       const step1 = peer.doc.getMap('frame').has('loops') ? 'answered' : 'empty answer'
       const first = () => (loopsOf(peer.doc).get(0).get('points') as Y.Array<Y.Map<number>>).get(0)
       const tagA = Math.round(Math.random() * 1e6) / 1e3 + 100
@@ -307,7 +307,7 @@ describe('sync message types × callers', () => {
       })
       peer.send(bytes)
       // One socket's messages are handled in order: once the awareness is in, the edits were handled.
-      await waitFor(() => server.awareness.getStates().has(clientId), 5000, 'awareness')
+      await until(() => server.awareness.getStates().has(clientId), 5000, 'awareness')
       await live.realtime.rooms.flush(server)
       const serverPoint = (loopsOf(server.doc).get(0).get('points') as any).get(0)
       return {

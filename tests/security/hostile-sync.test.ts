@@ -17,10 +17,11 @@ import {
   makeUser,
   signIn,
   startLive,
+  until,
   type DocClient,
   type Live,
 } from '../realtime/live-helpers.js'
-import { editUpdate, openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
+import { editUpdate, openRaw, syncMessage, type RawPeer } from './raw-sync.js'
 
 let live: Live
 let cookie: string
@@ -48,7 +49,7 @@ async function attacker(): Promise<{ roomId: string; peer: RawPeer }> {
   const { peer } = await openRaw(live.url, roomId, { origin: live.url, cookie })
   if (!peer) throw new Error('upgrade refused')
   peer.send(syncMessage(0, new Uint8Array([0])))
-  await waitFor(() => peer.syncSeen.includes(1), 5000, 'initial sync')
+  await until(() => peer.syncSeen.includes(1), 5000, 'initial sync')
   return { roomId, peer }
 }
 
@@ -72,7 +73,7 @@ async function otherRoomStillRelays(): Promise<void> {
   const outer = loopsOf(a.doc).get(0).get('id') as string
   const first = (loopsOf(a.doc).get(0).get('points') as Y.Array<Y.Map<unknown>>).get(0).get('id') as string
   movePoint(a.doc, outer, first, { z })
-  await waitFor(() => JSON.stringify(readRawFrame(b.doc)).includes(String(z)), 5000, 'relay in the other room')
+  await until(() => JSON.stringify(readRawFrame(b.doc)).includes(String(z)), 5000, 'relay in the other room')
 }
 
 const varUint = (n: number) => {
@@ -132,7 +133,7 @@ describe('malformed sync messages', () => {
     expect(update[0]).toBe(0)
     peer.send(syncMessage(2, update))
     const server = live.realtime.rooms.peek(roomId)!
-    await waitFor(
+    await until(
       () => (loopsOf(server.doc).get(0).get('points') as Y.Array<unknown>).length === count - 1,
       5000,
       'deletion applied',
@@ -162,13 +163,13 @@ describe('crafted deep structure and memory', () => {
       const t0 = performance.now()
       peer.send(syncMessage(2, update))
       const server = live.realtime.rooms.peek(roomId)!
-      await waitFor(() => server.doc.getMap('junk').size === 1, 20_000, 'deep update applied')
+      await until(() => server.doc.getMap('junk').size === 1, 20_000, 'deep update applied')
       // A figure for the report, not a timed assertion: how long one such message holds the room.
       console.log(`deep update of ${update.length} bytes applied after ${(performance.now() - t0).toFixed(0)} ms`)
       peer.ws.close()
       await peer.closed
       await otherRoomStillRelays()
-      await waitFor(() => live.realtime.rooms.peek(roomId) === undefined, 20_000, 'deep room freed')
+      await until(() => live.realtime.rooms.peek(roomId) === undefined, 20_000, 'deep room freed')
     }
     // Measured after a full collection. One such document costs about 11.6 MB of heap (yjs 13.6,
     // measured on this machine), so a room kept alive per round would grow ≥ 35 MB over three.

@@ -8,6 +8,7 @@ import * as awarenessProtocol from 'y-protocols/awareness'
 import * as syncProtocol from 'y-protocols/sync'
 import WebSocket from 'ws'
 import * as Y from 'yjs'
+import { until } from '../realtime/live-helpers.js'
 
 export const MESSAGE_SYNC = 0
 export const MESSAGE_AWARENESS = 1
@@ -86,15 +87,6 @@ export function editUpdate(doc: Y.Doc, edit: (doc: Y.Doc) => void): Uint8Array {
   return captured
 }
 
-/** Polls until `check` holds, failing after `ms` with `what`. */
-export async function waitFor(check: () => boolean, ms: number, what: string): Promise<void> {
-  const end = Date.now() + ms
-  while (!check()) {
-    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 10))
-  }
-}
-
 /**
  * A sync step 1 and its answer: the server answers after the updates it received before are stored
  * and applied (server/realtime/sync-endpoint.ts), so once this returns they have been dealt with.
@@ -106,6 +98,6 @@ export async function roundTrip(peer: RawPeer, ms = 10_000): Promise<'answered' 
   let closed = false
   void peer.closed.then(() => (closed = true))
   if (peer.ws.readyState === WebSocket.OPEN) peer.send(syncMessage(0, Y.encodeStateVector(peer.doc)))
-  await waitFor(() => closed || peer.ws.readyState !== WebSocket.OPEN || answers() > before, ms, 'sync round trip')
+  await until(() => closed || peer.ws.readyState !== WebSocket.OPEN || answers() > before, ms, 'sync round trip')
   return answers() > before ? 'answered' : 'closed'
 }

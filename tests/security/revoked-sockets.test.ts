@@ -24,7 +24,7 @@ import {
   type DocClient,
   type Live,
 } from '../realtime/live-helpers.js'
-import { editUpdate, openRaw, syncMessage, waitFor, type RawPeer } from './raw-sync.js'
+import { editUpdate, openRaw, syncMessage, type RawPeer } from './raw-sync.js'
 
 let live: Live
 let owner: ApiClient
@@ -65,7 +65,7 @@ async function rawPeer(roomId: string, cookie: string): Promise<RawPeer> {
   const { peer } = await openRaw(live.url, roomId, { origin: live.url, cookie })
   if (!peer) throw new Error('upgrade refused')
   peer.send(syncMessage(0, new Uint8Array([0])))
-  await waitFor(() => peer.syncSeen.includes(1), 5000, 'initial sync')
+  await until(() => peer.syncSeen.includes(1), 5000, 'initial sync')
   return peer
 }
 

@@ -58,15 +58,12 @@ describe('rooms list activity', () => {
     const outer = loopsOf(c.doc).get(0)
     const first = (outer.get('points') as Y.Array<Y.Map<unknown>>).get(0)
     movePoint(c.doc, outer.get('id') as string, first.get('id') as string, { x: (first.get('x') as number) + 0.5 })
-    let mine: Activity | undefined
-    const end = Date.now() + 15_000
-    while (Date.now() < end) {
+    const recorded = async () => {
       await live.running.activity.recorder.flushAll()
-      mine = (await activityOf(owner))[busy]
-      if (mine?.lastChange?.what.startsWith('moved')) break
-      await new Promise((r) => setTimeout(r, 100))
+      return (await activityOf(owner))[busy]?.lastChange?.what.startsWith('moved') ?? false
     }
-    expect(mine?.lastChange).toMatchObject({ by: 'Tobias Editor', what: 'moved Outer P1' })
+    await until(recorded, 15_000, 'the move recorded', 100)
+    expect((await activityOf(owner))[busy]?.lastChange).toMatchObject({ by: 'Tobias Editor', what: 'moved Outer P1' })
     // The edit is the busy room's alone: the untouched room's last change is still its membership rows.
     expect((await activityOf(owner))[quiet]!.lastChange?.what).toMatch(/^(created|joined) the room$/)
   })
