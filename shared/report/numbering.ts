@@ -10,8 +10,20 @@ export function loopNames(loops: readonly { role: 'outer' | 'hole' }[]): string[
   return loops.map((l) => (l.role === 'outer' ? 'Outer' : `Hole ${++hole}`))
 }
 
+/** "P3" for frame point index 2, within its loop. */
+export const pointLabel = (point: number): string => `P${point + 1}`
+
 /** "Outer P3" for frame point index 2 of loop "Outer". */
-export const pointName = (loop: string, point: number): string => `${loop} P${point + 1}`
+export const pointName = (loop: string, point: number): string => `${loop} ${pointLabel(point)}`
+
+/** The drawings' short form, where labels crowd: "P3" on the outer loop, "H1 P3" on hole 1; by loop, then point. */
+export function shortPointNames(loops: readonly { role: 'outer' | 'hole'; points: readonly unknown[] }[]): string[][] {
+  let hole = 0
+  return loops.map((l) => {
+    const prefix = l.role === 'outer' ? '' : `H${++hole} `
+    return l.points.map((_, i) => prefix + pointLabel(i))
+  })
+}
 
 /** "Hole 1 E4" for edge index 3 of loop "Hole 1". */
 export const edgeName = (loop: string, edge: number): string => `${loop} E${edge + 1}`

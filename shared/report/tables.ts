@@ -5,7 +5,7 @@
  */
 import { reasonWords } from '../protocol/solver-reasons'
 import type { Figures, FrameLoop, SolverReport } from '../types'
-import { edgeName, loopNames, pointName } from './numbering'
+import { edgeName, loopNames, pointLabel, pointName } from './numbering'
 import type { ReportTable } from './table'
 
 /** The frame fields the report reads; warpAngle is shown when the frame carries one. */
@@ -109,7 +109,7 @@ function edgesTable({ frame, figures }: ReportInput, loops: string[]): ReportTab
       const cable = e.kind === 'cable' ? figures.cables.find((c) => c.loop === l && c.edge === i) : undefined
       return [
         edgeName(loops[l]!, i),
-        `P${i + 1}–P${((i + 1) % n) + 1}`,
+        `${pointLabel(i)}–${pointLabel((i + 1) % n)}`,
         e.kind,
         e.kind === 'cable' ? (e.tension ?? null) : null,
         chord,

@@ -34,7 +34,7 @@ export function useCoordinateEdit() {
   /** Sets x, y or z (m) of a point, or shows why not. */
   function setCoordinate(row: PointRow, axis: 'x' | 'y' | 'z', value: number | null): void {
     const key = `${row.key}/${axis}`
-    const error = checkNumber(`${row.loopLabel} ${row.label} ${axis}`, value, {
+    const error = checkNumber(`${row.name} ${axis}`, value, {
       min: -COORDINATE_LIMIT,
       max: COORDINATE_LIMIT,
     })

@@ -9,6 +9,7 @@ import * as Y from 'yjs'
 import type { EdgeKind } from '../../shared/types'
 import { mapsIn, shapeProblem, type ShapeProblem } from '../../shared/room-doc/read'
 import { frameMap } from '../../shared/room-doc/schema'
+import { loopNames, pointLabel, pointName } from '../../shared/report/numbering'
 
 export interface ViewPoint {
   id: string
@@ -93,24 +94,29 @@ export interface PointRow extends ViewPoint {
   /** Unique across the frame: loop id and point id. */
   key: string
   loopId: string
-  /** "Outer" or "Hole 1", "Hole 2", … in document order. */
+  /** "Outer" or "Hole 1", "Hole 2", … in document order (shared/report/numbering.ts). */
   loopLabel: string
   /** "P1", "P2", … within the loop, in loop order. */
   label: string
+  /** "Outer P3": loop and point, as the report and the figures name it. */
+  name: string
 }
 
 /** Flattens a frame into table rows: the outer loop first, then the holes, each in loop order. */
 export function frameRows(view: Readonly<FrameView>): PointRow[] {
-  const rows: PointRow[] = []
-  let hole = 0
-  const ordered = [...view.loops.filter((l) => l.role === 'outer'), ...view.loops.filter((l) => l.role === 'hole')]
-  for (const loop of ordered) {
-    const loopLabel = loop.role === 'outer' ? 'Outer' : `Hole ${++hole}`
-    loop.points.forEach((p, i) => {
-      rows.push({ ...p, key: `${loop.id}/${p.id}`, loopId: loop.id, loopLabel, label: `P${i + 1}` })
-    })
-  }
-  return rows
+  const names = loopNames(view.loops)
+  const named = view.loops.map((loop, l) => ({ loop, loopLabel: names[l]! }))
+  const ordered = [...named.filter((n) => n.loop.role === 'outer'), ...named.filter((n) => n.loop.role === 'hole')]
+  return ordered.flatMap(({ loop, loopLabel }) =>
+    loop.points.map((p, i) => ({
+      ...p,
+      key: `${loop.id}/${p.id}`,
+      loopId: loop.id,
+      loopLabel,
+      label: pointLabel(i),
+      name: pointName(loopLabel, i),
+    })),
+  )
 }
 
 /** Finds a point of the view by ids. */

@@ -3,7 +3,13 @@
  * labelled frame points and numbered pins, and a flat-area map by slope class. Pure functions of the
  * surface (vertices #V×3 m, triangles #T×3), the frame and the pins.
  */
-import { contourInterval, contourLevels, contourSegments, loopNames, type ReportFrame } from '../../../shared/report'
+import {
+  contourInterval,
+  contourLevels,
+  contourSegments,
+  shortPointNames,
+  type ReportFrame,
+} from '../../../shared/report'
 import { FLAT_CLASSES, HEIGHT_RAMP, hexToRgb, rampColour } from '../colour-maps'
 import { loopPointLabels, spreadLabels, spreadPins, type PointLabel } from './labels'
 import {
@@ -52,11 +58,8 @@ function triPath(p: (i: number) => [number, number], T: ArrayLike<number>, t: nu
 
 /** Short labels of the frame points by loop: "P3" on the outer loop, "H1 P3" on hole 1. */
 function loopLabels(frame: ReportFrame): { points: { x: number; y: number; z: number }[]; texts: string[] }[] {
-  const names = loopNames(frame.loops)
-  return frame.loops.map((loop, l) => {
-    const prefix = loop.role === 'outer' ? '' : `${names[l]!.replace('Hole ', 'H')} `
-    return { points: loop.points, texts: loop.points.map((_, i) => `${prefix}P${i + 1}`) }
-  })
+  const names = shortPointNames(frame.loops)
+  return frame.loops.map((loop, l) => ({ points: loop.points, texts: names[l]! }))
 }
 
 /** Frame point labels on a drawing, given where a point in metres lands on it. */
