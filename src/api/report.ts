@@ -8,17 +8,11 @@ import {
   frameSchema,
   solverReportSchema,
   surfaceMeshJsonSchema,
-  type SurfaceMesh,
+  type Surface,
 } from '../../shared/protocol'
-import type { Figures, Frame, SolverReport } from '../../shared/types'
+import type { Frame } from '../../shared/types'
 import { request } from './http'
 import { roomPath } from './team'
-
-/** A solved surface with everything the report prints about it. */
-export interface ReportSurface extends SurfaceMesh {
-  figures: Figures
-  solver: SolverReport
-}
 
 const solved = z.object({ figures: figuresSchema, solver: solverReportSchema })
 const meshAndSolved = <T extends z.ZodRawShape>(extra: T) => z.intersection(surfaceMeshJsonSchema, solved.extend(extra))
@@ -29,11 +23,11 @@ const replies = {
 }
 
 /** GET /api/rooms/:id/snapshots/:sid/surface: the snapshot's mesh, full figures and solver report. */
-export async function getSnapshotResult(roomId: string, sid: string): Promise<ReportSurface> {
+export async function getSnapshotResult(roomId: string, sid: string): Promise<Surface> {
   return request('GET', `${roomPath(roomId)}/snapshots/${encodeURIComponent(sid)}/surface`, undefined, replies.snapshot)
 }
 
 /** GET /api/rooms/:id/surface: the current settled state and the frame it was solved from; 409 while settling. */
-export async function getCurrentResult(roomId: string): Promise<ReportSurface & { frame: Frame }> {
+export async function getCurrentResult(roomId: string): Promise<Surface & { frame: Frame }> {
   return request('GET', `${roomPath(roomId)}/surface`, undefined, replies.current)
 }

@@ -1,7 +1,8 @@
 import { computed, ref, shallowRef, watch, type Ref } from 'vue'
 import { ApiError, getRoom, type RoomDetail } from '../api/http'
-import { getCurrentResult, getSnapshotResult, type ReportSurface } from '../api/report'
+import { getCurrentResult, getSnapshotResult } from '../api/report'
 import { getSnapshot, listPins, listSnapshots, type Pin, type SnapshotSummary } from '../api/team'
+import type { Surface } from '../../shared/protocol'
 import { reportTables } from '../../shared/report'
 import type { Frame } from '../../shared/types'
 
@@ -11,7 +12,7 @@ export type ReportSource = { kind: 'snapshot'; id: string } | { kind: 'current' 
 /** A loaded report: the surface, the frame it was solved from, and how it was saved (if it was). */
 export interface ReportState {
   frame: Frame
-  surface: ReportSurface
+  surface: Surface
   /** Null for the current state, which is not saved. */
   saved: { name: string; note: string; author: string; createdAt: string } | null
 }

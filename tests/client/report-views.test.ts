@@ -94,7 +94,9 @@ describe('report drawings', () => {
     ],
   }
   // the bilinear hypar z = x·y/4 through the four corners
-  const mesh = structuredMesh(8, 8, (s, t) => [4 * s, 4 * t, 4 * s * t])
+  const hypar = structuredMesh(8, 8, (s, t) => [4 * s, 4 * t, 4 * s * t])
+  // as the report receives it: a SurfaceMesh in single precision
+  const mesh = { vertices: Float32Array.from(hypar.vertices), triangles: hypar.triangles }
 
   it('draws the plan with contours at the stated interval, labelled, and numbered pins', () => {
     const v = planView(

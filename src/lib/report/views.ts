@@ -10,6 +10,7 @@ import {
   shortPointNames,
   type ReportFrame,
 } from '../../../shared/report'
+import type { SurfaceMesh } from '../../../shared/protocol'
 import { FLAT_CLASSES, HEIGHT_RAMP, hexToRgb, rampColour } from '../colour-maps'
 import { loopPointLabels, spreadLabels, spreadPins, type PointLabel } from './labels'
 import {
@@ -22,10 +23,6 @@ import {
   viewAxes,
 } from './projection'
 
-export interface SurfaceArrays {
-  vertices: ArrayLike<number>
-  triangles: ArrayLike<number>
-}
 export interface SvgFace {
   d: string
   fill: string
@@ -93,7 +90,7 @@ function outlinePath(p: (i: number) => [number, number], T: ArrayLike<number>): 
 }
 
 /** Three-quarter view from the south-west, 30° above the horizon, shaded by a light over the viewer's left shoulder. */
-export function shadedView(s: SurfaceArrays, frame: ReportFrame, width: number, maxHeight: number) {
+export function shadedView(s: SurfaceMesh, frame: ReportFrame, width: number, maxHeight: number) {
   const axes = viewAxes(225, 30)
   const P = projectVertices(s.vertices, axes)
   // Fit the projection like a plan: screen right/up play the part of x/y.
@@ -127,7 +124,7 @@ export function shadedView(s: SurfaceArrays, frame: ReportFrame, width: number, 
 
 /** Plan, north up: pale height tint, contours at a round interval with their heights, frame points, pins. */
 export function planView(
-  s: SurfaceArrays,
+  s: SurfaceMesh,
   frame: ReportFrame,
   pins: readonly { x: number; y: number }[],
   width: number,
@@ -202,7 +199,7 @@ export function planView(
 
 /** Flat-area map: each face coloured by its slope class; the classes with their share of fabric area. */
 export function slopeMapView(
-  s: SurfaceArrays,
+  s: SurfaceMesh,
   frame: ReportFrame,
   flatThreshold: number,
   width: number,
