@@ -18,7 +18,7 @@ export interface ReportState {
 }
 
 /**
- * Loads the room, its snapshots (newest first), its open pins (oldest first: the report numbers
+ * Loads the room, its snapshots, its open pins (oldest first: the report numbers
  * them in that order) and the chosen source; again when the room or the source changes.
  */
 export function useReport(roomId: Ref<string>, source: Ref<ReportSource | null>) {
@@ -33,7 +33,7 @@ export function useReport(roomId: Ref<string>, source: Ref<ReportSource | null>)
   async function loadRoom(): Promise<void> {
     const [r, s] = await Promise.all([getRoom(roomId.value), listSnapshots(roomId.value)])
     room.value = r
-    snapshots.value = [...s].sort((a, b) => Date.parse(b.createdAt) - Date.parse(a.createdAt))
+    snapshots.value = s
   }
 
   async function loadSource(src: ReportSource): Promise<ReportState> {
