@@ -2,6 +2,7 @@
  * Types shared by the client, the server and the form-finding engine.
  * Units: lengths in metres, prestress in kN/m, cable tension in kN, angles in degrees unless named.
  */
+import type { SolverReason } from './protocol/solver-reasons'
 
 /** Kind of a frame edge: held in place, or a flexible cable of given tension. */
 export type EdgeKind = 'rigid' | 'cable'
@@ -51,8 +52,8 @@ export interface SolverReport {
   /** Final residual: max nodal mean-curvature force, normalised (dimensionless). */
   residual: number
   converged: boolean
-  /** Reason when not converged: 'diverged', 'no-equilibrium', 'cancelled', 'iteration-limit', … */
-  reason?: string
+  /** Reason when not converged; the codes and their words are in shared/protocol/solver-reasons.ts. */
+  reason?: SolverReason
   ms: number
   /**
    * Warp ≠ fill on the spatial path: how far the settled stresses are from the prescribed warp and

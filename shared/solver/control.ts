@@ -1,3 +1,4 @@
+import type { SolverReason } from '../protocol/solver-reasons'
 import type { SolverReport } from '../types'
 
 /** How a caller steers and watches a solve. */
@@ -22,7 +23,7 @@ export function report(
   start: number,
   iterations: number,
   residual: number,
-  reason?: string,
+  reason?: SolverReason,
 ): SolverReport {
   const converged = reason === undefined
   return {

@@ -1,4 +1,5 @@
 import { trianglePattern } from '../linalg/triangle-pattern'
+import type { SolverReason } from '../protocol/solver-reasons'
 import type { SolverReport } from '../types'
 import {
   areaHessianProduct,
@@ -69,7 +70,7 @@ export function solveHeightField(
   let planArea = 0
   for (let v = 0; v < vertexCount; v++) planArea += plan.vertexAreas[v]!
   const scale = Math.sqrt(planArea)
-  const done = (iterations: number, residual: number, reason?: string): HeightFieldResult => ({
+  const done = (iterations: number, residual: number, reason?: SolverReason): HeightFieldResult => ({
     heights: u,
     report: report(HEIGHT_FIELD_METHOD, start, iterations, residual, reason),
     system: sys,

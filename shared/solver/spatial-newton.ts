@@ -1,4 +1,5 @@
 import { NotPositiveDefiniteError } from '../linalg/ldl'
+import type { SolverReason } from '../protocol/solver-reasons'
 import type { SolverReport } from '../types'
 import { now, report, type SolveControl } from './control'
 import { cornerCotanWeights } from './cotan-laplacian'
@@ -88,7 +89,7 @@ export function solveSpatialNewton(
   let areaAtBest = 0
   let shift = 0
   let targetReady = false
-  const done = (residual: number, reason?: string): NewtonResult => ({
+  const done = (residual: number, reason?: SolverReason): NewtonResult => ({
     vertices: x,
     report: report(SPATIAL_NEWTON_METHOD, start, iterations, residual, reason),
     setup,

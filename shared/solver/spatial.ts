@@ -1,5 +1,6 @@
 import { expandPattern, type DofPattern } from '../linalg/dof-pattern'
 import { trianglePattern, type TrianglePattern } from '../linalg/triangle-pattern'
+import type { SolverReason } from '../protocol/solver-reasons'
 import type { SolverReport } from '../types'
 import { now, report, type SolveControl } from './control'
 import { assembleCotanLaplacian, cornerCotanWeights } from './cotan-laplacian'
@@ -141,7 +142,7 @@ export function solveSpatial(
   let best = Infinity
   let bestIteration = 0
   let areaAtBest = 0
-  const done = (residual: number, reason?: string): SpatialResult => ({
+  const done = (residual: number, reason?: SolverReason): SpatialResult => ({
     vertices: x,
     report: report(SPATIAL_METHOD, start, iterations, residual, reason),
     setup,
