@@ -1,9 +1,10 @@
 // A private MariaDB instance for development and tests: no system service, data under .data/,
 // listening on loopback only. Plain Node so it runs before dependencies are type-checked.
-import { spawn, execFile } from 'node:child_process'
-import { existsSync, mkdirSync, readFileSync } from 'node:fs'
+import { execFile } from 'node:child_process'
+import { existsSync, mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { promisify } from 'node:util'
+import { alive, ensurePackage, readPid, startDaemon, stopDaemon } from './helpers.mjs'
 
 const run = promisify(execFile)
 const root = resolve(import.meta.dirname, '..')
@@ -19,46 +20,9 @@ export const dbDefaults = {
 
 const log = (msg) => console.log(`[db] ${msg}`)
 
-async function findBinary(name) {
-  for (const dir of (process.env.PATH ?? '').split(':').concat('/usr/sbin', '/usr/bin')) {
-    const path = resolve(dir || '.', name)
-    if (existsSync(path)) return path
-  }
-  return null
-}
-
-async function ensureInstalled() {
-  if (await findBinary('mariadbd')) return
-  log('mariadbd not found: installing mariadb-server from Debian (needs root)')
-  await run('apt-get', ['update'], { maxBuffer: 64 << 20 })
-  await run('apt-get', ['install', '-y', 'mariadb-server'], {
-    maxBuffer: 64 << 20,
-    env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
-  })
-  if (!(await findBinary('mariadbd'))) throw new Error('mariadb-server installed but mariadbd is still missing')
-}
-
 // The data dir can sit on a long path; unix sockets are limited to ~107 bytes, so keep it in /tmp.
 const socketPath = (port) => `/tmp/veilroom-${port}.sock`
 const pidPath = (dataDir) => resolve(dataDir, 'mariadbd.pid')
-
-function alive(pid) {
-  try {
-    process.kill(pid, 0)
-    return true
-  } catch {
-    return false
-  }
-}
-
-function readPid(dataDir) {
-  try {
-    const pid = Number(readFileSync(pidPath(dataDir), 'utf8').trim())
-    return Number.isInteger(pid) && pid > 0 ? pid : null
-  } catch {
-    return null
-  }
-}
 
 async function ping(port) {
   try {
@@ -107,8 +71,8 @@ export async function dropDatabase({ port, database }) {
 export async function startDb(options = {}) {
   const opts = { ...dbDefaults, ...options }
   const { port, dataDir } = opts
-  await ensureInstalled()
-  const pid = readPid(dataDir)
+  const mariadbd = await ensurePackage('mariadbd', 'mariadb-server', { tag: 'db', recommends: true })
+  const pid = readPid(pidPath(dataDir))
   let started = false
   if (pid && alive(pid) && (await ping(port))) {
     log(`reusing MariaDB pid ${pid} on port ${port}`)
@@ -122,8 +86,8 @@ export async function startDb(options = {}) {
         { maxBuffer: 64 << 20 },
       )
     }
-    const child = spawn(
-      await findBinary('mariadbd'),
+    const daemon = await startDaemon(
+      mariadbd,
       [
         '--no-defaults',
         `--datadir=${dataDir}`,
@@ -140,12 +104,10 @@ export async function startDb(options = {}) {
         '--innodb-flush-log-at-trx-commit=2',
         `--log-error=${resolve(dataDir, 'error.log')}`,
       ],
-      { detached: true, stdio: 'ignore' },
+      { ready: () => ping(port), ms: 30_000, what: `MariaDB did not answer on port ${port}; see ${dataDir}/error.log` },
     )
-    child.unref()
     started = true
-    await waitFor(() => ping(port), 30_000, `MariaDB did not answer on port ${port}; see ${dataDir}/error.log`)
-    log(`MariaDB started on 127.0.0.1:${port} (pid ${child.pid})`)
+    log(`MariaDB started on 127.0.0.1:${port} (pid ${daemon})`)
   }
   await createDatabase(opts)
   return { port, socket: socketPath(port), started }
@@ -154,20 +116,7 @@ export async function startDb(options = {}) {
 /** Stops the instance whose pid file lives in dataDir and waits until the process has exited. */
 export async function stopDb(options = {}) {
   const { dataDir } = { ...dbDefaults, ...options }
-  const pid = readPid(dataDir)
-  if (!pid || !alive(pid)) return
-  process.kill(pid, 'SIGTERM')
-  await waitFor(async () => !alive(pid), 30_000, `MariaDB pid ${pid} did not stop`)
-  log(`MariaDB pid ${pid} stopped`)
-}
-
-async function waitFor(check, ms, message) {
-  const end = Date.now() + ms
-  while (Date.now() < end) {
-    if (await check()) return
-    await new Promise((r) => setTimeout(r, 100))
-  }
-  throw new Error(message)
+  await stopDaemon(pidPath(dataDir), 30_000, 'MariaDB', log)
 }
 
 // `node scripts/db.mjs start|stop` for manual use.

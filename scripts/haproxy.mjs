@@ -6,7 +6,7 @@ import { spawn } from 'node:child_process'
 import { mkdirSync, writeFileSync } from 'node:fs'
 import { connect } from 'node:net'
 import { resolve } from 'node:path'
-import { ensurePackage, waitFor } from './redis.mjs'
+import { ensurePackage, waitFor } from './helpers.mjs'
 
 const root = resolve(import.meta.dirname, '..')
 

@@ -1,7 +1,10 @@
-// Small process helpers shared by start.mjs and test.mjs.
-import { spawn } from 'node:child_process'
-import { existsSync, readdirSync, statSync } from 'node:fs'
+// Small process helpers shared by the scripts: commands and server children for start.mjs,
+// test.mjs and cluster.mjs; the private daemons (db.mjs, redis.mjs, haproxy.mjs) found, installed,
+// started, waited for and stopped one way. Node built-ins only: start.mjs runs before npm install.
+import { execFile, spawn } from 'node:child_process'
+import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs'
 import { resolve } from 'node:path'
+import { promisify } from 'node:util'
 
 export const root = resolve(import.meta.dirname, '..')
 const bin = (name) => resolve(root, 'node_modules/.bin', name)
@@ -100,3 +103,81 @@ export function stopChild(child) {
 
 /** Stops every command still running from run() (on Ctrl-C or a CI timeout). */
 export const stopRunning = () => Promise.all([...running].map(stopChild))
+
+/** Polls `check` (may be async) every 100 ms until it is true; throws `message` after `ms`. */
+export async function waitFor(check, ms, message) {
+  const end = Date.now() + ms
+  while (Date.now() < end) {
+    if (await check()) return
+    await new Promise((r) => setTimeout(r, 100))
+  }
+  throw new Error(message)
+}
+
+/** Finds an executable on PATH or in the sbin folders Debian uses; null when absent. */
+export function findBinary(name) {
+  for (const dir of (process.env.PATH ?? '').split(':').concat('/usr/sbin', '/usr/bin')) {
+    const path = resolve(dir || '.', name)
+    if (existsSync(path)) return path
+  }
+  return null
+}
+
+const execFileAsync = promisify(execFile)
+
+/**
+ * The binary's path, installing its Debian package first when it is missing (needs root); the
+ * package's recommended packages only with `recommends`.
+ */
+export async function ensurePackage(binary, pkg, { tag = pkg, recommends = false } = {}) {
+  const found = findBinary(binary)
+  if (found) return found
+  console.log(`[${tag}] ${binary} not found: installing ${pkg} from Debian (needs root)`)
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' }
+  await execFileAsync('apt-get', ['update'], { maxBuffer: 64 << 20, env })
+  const install = ['install', '-y', ...(recommends ? [] : ['--no-install-recommends']), pkg]
+  await execFileAsync('apt-get', install, { maxBuffer: 64 << 20, env })
+  const path = findBinary(binary)
+  if (!path) throw new Error(`${pkg} installed but ${binary} is still missing`)
+  return path
+}
+
+/** True while a process with this pid exists. */
+export function alive(pid) {
+  try {
+    process.kill(pid, 0)
+    return true
+  } catch {
+    return false
+  }
+}
+
+/** The pid in a daemon's pid file, or null when there is none (or it is not a pid). */
+export function readPid(file) {
+  try {
+    const pid = Number(readFileSync(file, 'utf8').trim())
+    return Number.isInteger(pid) && pid > 0 ? pid : null
+  } catch {
+    return null
+  }
+}
+
+/**
+ * Starts a daemon detached from this process (it outlives npm start's Ctrl-C handling and keeps
+ * its data between runs) and waits until `ready()` answers; `what` names it in the timeout error.
+ */
+export async function startDaemon(binary, args, { ready, ms, what }) {
+  const child = spawn(binary, args, { detached: true, stdio: 'ignore' })
+  child.unref()
+  await waitFor(ready, ms, what)
+  return child.pid
+}
+
+/** Stops the daemon named in `pidFile` (SIGTERM, so it flushes its data) and waits until it is gone. */
+export async function stopDaemon(pidFile, ms, name, log) {
+  const pid = readPid(pidFile)
+  if (!pid || !alive(pid)) return
+  process.kill(pid, 'SIGTERM')
+  await waitFor(() => !alive(pid), ms, `${name} pid ${pid} did not stop`)
+  log(`${name} pid ${pid} stopped`)
+}
