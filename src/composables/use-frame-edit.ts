@@ -10,15 +10,18 @@ import type { PointRow } from '../lib/frame-view'
 /** Largest coordinate accepted from the keyboard, m; a typo of extra digits should not fly off. */
 export const COORDINATE_LIMIT = 10_000
 
+/** What a typed number must be besides finite: within [min, max], and above 0 when `positive`. */
+export interface NumberLimits {
+  min?: number
+  max?: number
+  positive?: boolean
+}
+
 /**
- * Checks a typed number: finite, and within [min, max] when given. Returns an error message naming
+ * Checks a typed number: finite, and within the limits when given. Returns an error message naming
  * the field, or undefined when the value is fine.
  */
-export function checkNumber(
-  field: string,
-  value: number | null,
-  opts: { min?: number; max?: number; positive?: boolean } = {},
-): string | undefined {
+export function checkNumber(field: string, value: number | null, opts: NumberLimits = {}): string | undefined {
   if (value === null || !Number.isFinite(value)) return `${field}: enter a number.`
   if (opts.positive && !(value > 0)) return `${field}: must be greater than 0.`
   if (opts.min !== undefined && value < opts.min) return `${field}: must be at least ${opts.min}.`
