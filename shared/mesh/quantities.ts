@@ -4,8 +4,12 @@
  * indices. Outputs are written into `out` (allocated by the caller) and returned.
  */
 
-/** Twice the vector area of face t written to out[3t..3t+2]; returns nothing (inner helper). */
-function crossOfFace(V: Readonly<Float64Array>, T: Readonly<Uint32Array>, t: number, o: Float64Array, k: number): void {
+/**
+ * Twice the vector area of face t (edge ab × edge ac: right-hand normal, length = 2 × area, m²)
+ * written to o[k..k+2]. Takes any array of positions (#V×3) and indices (#T×3), so the client's
+ * Float32 surfaces use it as the solver's Float64 meshes do.
+ */
+export function faceCross(V: ArrayLike<number>, T: ArrayLike<number>, t: number, o: Float64Array, k: number): void {
   const a = 3 * T[3 * t]!
   const b = 3 * T[3 * t + 1]!
   const c = 3 * T[3 * t + 2]!
@@ -25,7 +29,7 @@ export function faceAreas(out: Float64Array, V: Readonly<Float64Array>, T: Reado
   const n = T.length / 3
   const c = new Float64Array(3)
   for (let t = 0; t < n; t++) {
-    crossOfFace(V, T, t, c, 0)
+    faceCross(V, T, t, c, 0)
     out[t] = 0.5 * Math.hypot(c[0]!, c[1]!, c[2]!)
   }
   return out
@@ -35,7 +39,7 @@ export function faceAreas(out: Float64Array, V: Readonly<Float64Array>, T: Reado
 export function faceAreaVectors(out: Float64Array, V: Readonly<Float64Array>, T: Readonly<Uint32Array>): Float64Array {
   const n = T.length / 3
   for (let t = 0; t < n; t++) {
-    crossOfFace(V, T, t, out, 3 * t)
+    faceCross(V, T, t, out, 3 * t)
     out[3 * t]! *= 0.5
     out[3 * t + 1]! *= 0.5
     out[3 * t + 2]! *= 0.5
@@ -186,3 +190,11 @@ export function meshTopologyKey(nV: number, T: Readonly<Uint32Array>): string {
   }
   return `${nV}:${T.length / 3}:${(h >>> 0).toString(16)}`
 }
+
+/**
+ * Rise per metre of plan run of the plan direction (ax, ay) projected vertically onto a plane with
+ * unit normal (nx, ny, nz): the direction on the face is (ax, ay, rise). Undefined (±∞) for a
+ * standing face; callers skip faces with |nz| below their own limit.
+ */
+export const planDirectionRise = (nx: number, ny: number, nz: number, ax: number, ay: number): number =>
+  -(nx * ax + ny * ay) / nz

@@ -6,6 +6,7 @@
  */
 import type { MembraneStress } from './membrane-energy'
 import { fibreVector } from './membrane-energy'
+import { planDirectionRise } from '../mesh/quantities'
 
 /** Cables as loads on the membrane's boundary. */
 export interface CableLoad {
@@ -66,7 +67,7 @@ export function membraneStress(
     // vertical projection keeps the plan direction; a standing triangle takes the orthogonal one
     let dx = ax,
       dy = ay,
-      dz = Math.abs(nz) > 0.1 ? -(nx * ax + ny * ay) / nz : 0
+      dz = Math.abs(nz) > 0.1 ? planDirectionRise(nx, ny, nz, ax, ay) : 0
     if (dz === 0 && Math.abs(nz) <= 0.1) {
       const along = nx * ax + ny * ay
       dx -= along * nx

@@ -2,7 +2,7 @@
  * Vertex colours for the comparison and report views: distance to the other surface, and slope.
  * Ramps are the workbench's own (src/lib/colour-maps.ts) plus one for distance.
  */
-import { rampColour, SLOPE_RAMP, SLOPE_SPAN, srgbToLinear, type Stop } from '../lib/colour-maps'
+import { rampColour, SLOPE_RAMP, SLOPE_SPAN, srgbToLinear, vertexSlopes, type Stop } from '../lib/colour-maps'
 
 /** Unchanged (pale sand) through teal to moved far (clay); our own ramp. */
 export const DISTANCE_RAMP: readonly Stop[] = [
@@ -43,43 +43,6 @@ export function rampColours(values: ArrayLike<number>, max: number, ramp: readon
   return out
 }
 
-/**
- * Slope of the surface at each vertex in degrees from horizontal: the area-weighted mean of the
- * adjacent faces' normals (cross products, which carry twice the face area), then the angle of
- * that normal from vertical. vertices: #V×3 m; triangles: #T×3. Returns Float64Array(#V), degrees.
- */
-export function vertexSlopes(vertices: ArrayLike<number>, triangles: ArrayLike<number>): Float64Array {
-  const nv = Math.floor(vertices.length / 3)
-  const normals = new Float64Array(nv * 3)
-  for (let t = 0; t + 2 < triangles.length; t += 3) {
-    const a = triangles[t]!
-    const b = triangles[t + 1]!
-    const c = triangles[t + 2]!
-    const ux = vertices[3 * b]! - vertices[3 * a]!
-    const uy = vertices[3 * b + 1]! - vertices[3 * a + 1]!
-    const uz = vertices[3 * b + 2]! - vertices[3 * a + 2]!
-    const vx = vertices[3 * c]! - vertices[3 * a]!
-    const vy = vertices[3 * c + 1]! - vertices[3 * a + 1]!
-    const vz = vertices[3 * c + 2]! - vertices[3 * a + 2]!
-    let nx = uy * vz - uz * vy
-    let ny = uz * vx - ux * vz
-    let nz = ux * vy - uy * vx
-    // Orientation varies between meshers: point every face normal up before summing.
-    if (nz < 0) [nx, ny, nz] = [-nx, -ny, -nz]
-    for (const i of [a, b, c]) {
-      normals[3 * i] = normals[3 * i]! + nx
-      normals[3 * i + 1] = normals[3 * i + 1]! + ny
-      normals[3 * i + 2] = normals[3 * i + 2]! + nz
-    }
-  }
-  const out = new Float64Array(nv)
-  for (let i = 0; i < nv; i++) {
-    const len = Math.hypot(normals[3 * i]!, normals[3 * i + 1]!, normals[3 * i + 2]!)
-    out[i] = len > 0 ? (Math.acos(Math.min(1, normals[3 * i + 2]! / len)) * 180) / Math.PI : 0
-  }
-  return out
-}
-
 /** Slope-map colours (flat = clay, steep = teal) like the workbench's slope view. */
 export const slopeColours = (vertices: ArrayLike<number>, triangles: ArrayLike<number>): Float32Array =>
-  rampColours(vertexSlopes(vertices, triangles), SLOPE_SPAN, SLOPE_RAMP)
+  rampColours(vertexSlopes(new Float64Array(vertices.length / 3), vertices, triangles), SLOPE_SPAN, SLOPE_RAMP)

@@ -3,6 +3,7 @@
  * own, built from the app palette (slate-teal, sand, clay). Stops are sRGB hex; vertex colours are
  * written in linear RGB because three.js treats vertex colours as linear working-space values.
  */
+import { faceCross } from '../../shared/mesh/quantities'
 
 export type ColourMode = 'height' | 'slope' | 'flat'
 
@@ -75,39 +76,30 @@ export function rampCss(stops: readonly Stop[], direction = 'to right'): string 
 
 /**
  * Slope of the surface at each vertex, degrees from horizontal, from the area-weighted average of
- * the normals of the faces around it (the sum of unnormalised face cross products).
- * vertices: #V×3 (m); triangles: #T×3 indices; out: #V (degrees). Isolated vertices get 0.
+ * the normals of the faces around it (face cross products, each turned to point up first: meshers
+ * differ in orientation). vertices: #V×3 (m); triangles: #T×3 indices; out: #V (degrees), written
+ * and returned. Isolated vertices get 0.
  */
-export function vertexSlopes(
-  out: Float32Array,
-  vertices: Readonly<Float32Array>,
-  triangles: Readonly<Uint32Array>,
-): Float32Array {
-  const n = new Float64Array(vertices.length)
-  for (let t = 0; t + 2 < triangles.length; t += 3) {
-    const i = triangles[t]! * 3
-    const j = triangles[t + 1]! * 3
-    const k = triangles[t + 2]! * 3
-    const ux = vertices[j]! - vertices[i]!,
-      uy = vertices[j + 1]! - vertices[i + 1]!,
-      uz = vertices[j + 2]! - vertices[i + 2]!
-    const vx = vertices[k]! - vertices[i]!,
-      vy = vertices[k + 1]! - vertices[i + 1]!,
-      vz = vertices[k + 2]! - vertices[i + 2]!
-    const cx = uy * vz - uz * vy,
-      cy = uz * vx - ux * vz,
-      cz = ux * vy - uy * vx
-    for (const v of [i, j, k]) {
-      n[v] = n[v]! + cx
-      n[v + 1] = n[v + 1]! + cy
-      n[v + 2] = n[v + 2]! + cz
+export function vertexSlopes<T extends Float32Array | Float64Array>(
+  out: T,
+  vertices: ArrayLike<number>,
+  triangles: ArrayLike<number>,
+): T {
+  const n = new Float64Array(3 * out.length)
+  const cross = new Float64Array(3)
+  for (let t = 0; 3 * t + 2 < triangles.length; t++) {
+    faceCross(vertices, triangles, t, cross, 0)
+    const up = cross[2]! < 0 ? -1 : 1
+    for (let k = 0; k < 3; k++) {
+      const v = 3 * triangles[3 * t + k]!
+      for (let d = 0; d < 3; d++) n[v + d]! += up * cross[d]!
     }
   }
   for (let v = 0; v < out.length; v++) {
-    const nx = n[3 * v] ?? 0,
-      ny = n[3 * v + 1] ?? 0,
-      nz = n[3 * v + 2] ?? 0
-    out[v] = nx === 0 && ny === 0 && nz === 0 ? 0 : (Math.atan2(Math.hypot(nx, ny), Math.abs(nz)) * 180) / Math.PI
+    const nx = n[3 * v]!,
+      ny = n[3 * v + 1]!,
+      nz = n[3 * v + 2]!
+    out[v] = nx === 0 && ny === 0 && nz === 0 ? 0 : (Math.atan2(Math.hypot(nx, ny), nz) * 180) / Math.PI
   }
   return out
 }

@@ -1,13 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import type { SnapshotFigures } from '../../src/api/team'
 import { figureDifferences, formatDiff } from '../../src/composables/use-compare'
-import {
-  legendMax,
-  legendTicks,
-  rampColours,
-  vertexSlopes,
-  DISTANCE_RAMP,
-} from '../../src/composables/use-compare-colours'
+import { legendMax, legendTicks, rampColours, DISTANCE_RAMP } from '../../src/composables/use-compare-colours'
+import { vertexSlopes } from '../../src/lib/colour-maps'
 import { nearestVertexDistances } from '../../src/composables/use-compare-distance'
 
 /** Regular grid of n×n vertices over [0, size]² with z = f(x, y), two triangles per cell. */
@@ -104,14 +99,15 @@ describe('vertex slopes', () => {
     for (const deg of [0, 12, 30, 55]) {
       const t = Math.tan((deg * Math.PI) / 180)
       const g = grid(6, 5, (x, y) => (x * 0.6 + y * 0.8) * t)
-      for (const s of vertexSlopes(g.vertices, g.triangles)) expect(s).toBeCloseTo(deg, 9)
+      for (const s of vertexSlopes(new Float64Array(g.vertices.length / 3), g.vertices, g.triangles))
+        expect(s).toBeCloseTo(deg, 9)
     }
   })
 
   it('is zero at the saddle point of a hypar z = x·y / c (gradient vanishes there)', () => {
     const g = grid(11, 2, (x, y) => ((x - 1) * (y - 1)) / 1.5)
     const centre = 5 * 11 + 5
-    expect(vertexSlopes(g.vertices, g.triangles)[centre]).toBeLessThan(1e-9)
+    expect(vertexSlopes(new Float64Array(g.vertices.length / 3), g.vertices, g.triangles)[centre]).toBeLessThan(1e-9)
   })
 })
 

@@ -4,6 +4,7 @@
  * solver lays the prestress (shared/solver/membrane-fibres.ts). Faces standing steeper than about
  * 84° carry no stroke (the vertical projection is undefined there).
  */
+import { faceCross, planDirectionRise } from '../../../shared/mesh/quantities'
 
 /** Largest number of strokes drawn, so a fine mesh stays readable and cheap. */
 export const MAX_WARP_MARKS = 400
@@ -19,29 +20,22 @@ export function warpMarks(vertices: ArrayLike<number>, triangles: ArrayLike<numb
   const ax = Math.cos((warpAngle * Math.PI) / 180),
     ay = Math.sin((warpAngle * Math.PI) / 180)
   const out: number[] = []
+  const cross = new Float64Array(3)
   for (let f = 0; f < faces; f += stride) {
-    const a = 3 * triangles[3 * f]!,
-      b = 3 * triangles[3 * f + 1]!,
-      c = 3 * triangles[3 * f + 2]!
-    const ux = vertices[b]! - vertices[a]!,
-      uy = vertices[b + 1]! - vertices[a + 1]!,
-      uz = vertices[b + 2]! - vertices[a + 2]!
-    const vx = vertices[c]! - vertices[a]!,
-      vy = vertices[c + 1]! - vertices[a + 1]!,
-      vz = vertices[c + 2]! - vertices[a + 2]!
-    let nx = uy * vz - uz * vy,
-      ny = uz * vx - ux * vz,
-      nz = ux * vy - uy * vx
-    const twice = Math.hypot(nx, ny, nz)
+    faceCross(vertices, triangles, f, cross, 0)
+    const twice = Math.hypot(cross[0]!, cross[1]!, cross[2]!)
     if (twice === 0) continue
-    nx /= twice
-    ny /= twice
-    nz /= twice
+    const nx = cross[0]! / twice,
+      ny = cross[1]! / twice,
+      nz = cross[2]! / twice
     if (Math.abs(nz) < 0.1) continue
-    const dz = -(nx * ax + ny * ay) / nz
+    const dz = planDirectionRise(nx, ny, nz, ax, ay)
     const length = Math.hypot(ax, ay, dz)
     const half = (0.4 * Math.sqrt(twice)) / length
     const lift = 0.01 * Math.sqrt(twice) * Math.sign(nz)
+    const a = 3 * triangles[3 * f]!,
+      b = 3 * triangles[3 * f + 1]!,
+      c = 3 * triangles[3 * f + 2]!
     const cx = (vertices[a]! + vertices[b]! + vertices[c]!) / 3 + lift * nx,
       cy = (vertices[a + 1]! + vertices[b + 1]! + vertices[c + 1]!) / 3 + lift * ny,
       cz = (vertices[a + 2]! + vertices[b + 2]! + vertices[c + 2]!) / 3 + lift * nz

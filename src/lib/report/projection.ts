@@ -3,6 +3,7 @@
  * projection. SVG instead of a WebGL canvas because vectors print sharp and never come out blank.
  * Units: metres in, SVG user units (px at 96 dpi) out; SVG's y axis points down.
  */
+import { faceCross } from '../../../shared/mesh/quantities'
 
 /** Maps plan metres to SVG units inside a box of given width, keeping the aspect ratio. */
 export interface PlanTransform {
@@ -112,19 +113,12 @@ export function faceShades(
 ): Float64Array {
   const n = Math.floor(triangles.length / 3)
   const out = new Float64Array(n)
+  const cross = new Float64Array(3)
   for (let t = 0; t < n; t++) {
-    const a = 3 * triangles[3 * t]!,
-      b = 3 * triangles[3 * t + 1]!,
-      c = 3 * triangles[3 * t + 2]!
-    const ux = vertices[b]! - vertices[a]!,
-      uy = vertices[b + 1]! - vertices[a + 1]!,
-      uz = vertices[b + 2]! - vertices[a + 2]!
-    const vx = vertices[c]! - vertices[a]!,
-      vy = vertices[c + 1]! - vertices[a + 1]!,
-      vz = vertices[c + 2]! - vertices[a + 2]!
-    const nx = uy * vz - uz * vy,
-      ny = uz * vx - ux * vz,
-      nz = ux * vy - uy * vx
+    faceCross(vertices, triangles, t, cross, 0)
+    const nx = cross[0]!,
+      ny = cross[1]!,
+      nz = cross[2]!
     const len = Math.hypot(nx, ny, nz)
     out[t] = len > 0 ? ambient + (1 - ambient) * Math.abs(dot(light, nx, ny, nz) / len) : ambient
   }
