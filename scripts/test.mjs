@@ -1,7 +1,7 @@
 // `npm test`: typecheck, lint, then every vitest suite against a throwaway MariaDB database, then
 // the browser tests against a running server. All stages run; the exit code is the first failure.
 // `npm test -- <vitest filters…>` runs only the matching vitest files (no typecheck, lint, browser);
-// `npm test -- --browser` only the browser tests.
+// `npm test -- --browser` only the browser tests; `npm test -- --browser <files…>` only those.
 import { existsSync, readdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { dbDefaults, dropDatabase, rootSql, startDb, stopDb } from './db.mjs'
@@ -16,7 +16,8 @@ import {
 } from './helpers.mjs'
 import { startFakeSmtpChild } from '../server/mail/fake-smtp-child.mjs'
 
-// `npm test -- --browser` runs only the browser tests (with the database and server they need).
+// `npm test -- --browser` runs only the browser tests (with the database and server they need);
+// filters given with it pick browser test files instead of vitest suites.
 const browserOnly = process.argv.includes('--browser')
 const filters = process.argv.slice(2).filter((a) => a !== '--browser')
 const results = []
@@ -97,7 +98,7 @@ try {
       await stage(`vitest ${filters.join(' ') || '(all tests/**)'}`, () => run('vitest', ['run', ...filters], { env }))
     const browserDir = resolve(root, 'tests/browser')
     const e2e = existsSync(browserDir) ? readdirSync(browserDir).filter((f) => f.endsWith('.e2e.ts')) : []
-    if (!filters.length && e2e.length) {
+    if ((browserOnly || !filters.length) && e2e.length) {
       await stage('browser tests (chromium)', async () => {
         if (!existsSync('/usr/bin/chromium')) {
           if ((await run('apt-get', ['update'])) || (await run('apt-get', ['install', '-y', 'chromium']))) return 1
@@ -110,7 +111,7 @@ try {
         // Invite mail goes to a fake SMTP server on a free port, read back through /api/dev/mailbox.
         smtp = await startFakeSmtpChild({ ...env, SMTP_PORT: '0' })
         server = await startServerChild({ ...env, PORT: '0', SMTP_HOST: '127.0.0.1', SMTP_PORT: String(smtp.port) })
-        return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts'], {
+        return run('vitest', ['run', '--config', 'tests/browser/vitest.config.ts', ...filters], {
           env: { ...env, BASE_URL: server.url },
         })
       })
